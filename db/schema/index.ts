@@ -1,0 +1,2 @@
+// Every table of Tributary, one file per area; drizzle-kit reads this index.
+export {};

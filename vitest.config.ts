@@ -1,0 +1,13 @@
+import { defineConfig } from "vitest/config";
+
+export default defineConfig({
+  resolve: { tsconfigPaths: true, alias: { "server-only": new URL("./tests/support/server-only-stub.ts", import.meta.url).pathname } },
+  test: {
+    include: ["tests/unit/**/*.test.ts", "tests/integration/**/*.test.ts"],
+    environment: "node",
+    testTimeout: 60_000,
+    hookTimeout: 120_000,
+    pool: "forks",
+    fileParallelism: false,
+  },
+});
