@@ -1,2 +1,3 @@
 // Every table of Tributary, one file per area; drizzle-kit reads this index.
-export {};
+export * from "./auth";
+export * from "./workspaces";
