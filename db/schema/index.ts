@@ -1,3 +1,4 @@
 // Every table of Tributary, one file per area; drizzle-kit reads this index.
 export * from "./auth";
 export * from "./workspaces";
+export * from "./jobs";

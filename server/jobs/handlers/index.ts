@@ -1,0 +1,14 @@
+import "server-only";
+import type { JobRun } from "@/db/schema/jobs";
+import type { JobKind } from "../queue";
+
+export type JobContext = {
+  run: JobRun;
+  /** Throttled progress report; the browser polls it. */
+  progress: (phase: string, done: number, total: number | null, message?: string) => Promise<void>;
+};
+
+export type JobHandler = (context: JobContext) => Promise<Record<string, unknown>>;
+
+/** Every kind of background work and the function that does it; add a kind here and in queue.ts. */
+export const jobHandlers: Partial<Record<JobKind, () => Promise<JobHandler>>> = {};
