@@ -2,3 +2,4 @@
 export * from "./auth";
 export * from "./workspaces";
 export * from "./jobs";
+export * from "./mail";
