@@ -1,0 +1,259 @@
+// `npm test`: a throwaway PostgreSQL (.data-test/pg on 54339) → migrations + seed → vitest unit and
+// integration tests → `next build` into .next-test → mail sink + web (+ worker) on test ports → vitest e2e
+// with Debian's chromium → stop everything → one line `N passed, M failed` counting every test.
+//
+//   bash scripts/test.sh [--no-e2e | --only unit | --only e2e] [-- <vitest filters/options>]
+import { existsSync, mkdirSync, readdirSync, readFileSync, rmSync } from "node:fs";
+import path from "node:path";
+import { randomSecret, resolveEnv, startDefaults, type Env } from "./env";
+import { acquireLock } from "./lock";
+import { assertPortsFree, buildIfNeeded, pgEnv, prepareDatabase, startAppProcesses, StepError, type Stack } from "./stack";
+import { Supervisor } from "./supervisor";
+
+const DATA_DIR = ".data-test";
+const PG_PORT = "54339";
+const WEB_PORT = "3100";
+const SMTP_PORT = "2535";
+/** Integration tests get their own copy of the migrated, seeded database; the e2e app keeps `tributary`. */
+const INTEGRATION_DB = "tributary_it";
+
+interface Options {
+  unit: boolean;
+  e2e: boolean;
+  vitestArgs: string[];
+}
+
+function parseArgs(argv: string[]): Options {
+  const options: Options = { unit: true, e2e: true, vitestArgs: [] };
+  for (let i = 0; i < argv.length; i++) {
+    const arg = argv[i];
+    if (arg === "--") {
+      options.vitestArgs = argv.slice(i + 1);
+      break;
+    } else if (arg === "--no-e2e") options.e2e = false;
+    else if (arg === "--only" && (argv[i + 1] === "unit" || argv[i + 1] === "e2e")) {
+      options.unit = argv[i + 1] === "unit";
+      options.e2e = argv[i + 1] === "e2e";
+      i++;
+    } else {
+      throw new StepError(`unknown option ${arg}; usage: bash scripts/test.sh [--no-e2e | --only unit|e2e] [-- vitest args]`);
+    }
+  }
+  return options;
+}
+
+class Tally {
+  passed = 0;
+  failed = 0;
+  private printed = false;
+  readonly notes: string[] = [];
+
+  /** A stage that could not produce test results counts as one failure. */
+  fail(note: string): void {
+    this.failed += 1;
+    this.notes.push(`FAILED: ${note}`);
+  }
+
+  /** Adds the counts of a vitest JSON report; problems outside tests (load errors, crashes) count as failures. */
+  addVitest(label: string, file: string, exitCode: number): void {
+    if (!existsSync(file)) {
+      if (exitCode === 0) this.notes.push(`${label}: no tests`);
+      else this.fail(`${label}: vitest exited with code ${exitCode} without a report`);
+      return;
+    }
+    const report = JSON.parse(readFileSync(file, "utf8")) as {
+      numPassedTests: number;
+      numFailedTests: number;
+      numFailedTestSuites: number;
+      numPendingTests?: number;
+      numTodoTests?: number;
+      success: boolean;
+    };
+    this.passed += report.numPassedTests;
+    this.failed += report.numFailedTests;
+    const skipped = (report.numPendingTests ?? 0) + (report.numTodoTests ?? 0);
+    this.notes.push(`${label}: ${report.numPassedTests} passed, ${report.numFailedTests} failed${skipped ? `, ${skipped} skipped` : ""}`);
+    if ((!report.success || exitCode !== 0) && report.numFailedTests === 0) {
+      this.fail(`${label}: vitest reported ${Math.max(report.numFailedTestSuites, 1)} failure(s) outside tests (files that do not load, unhandled errors); see above`);
+    }
+  }
+
+  print(): void {
+    if (this.printed) return;
+    this.printed = true;
+    for (const note of this.notes) console.log(`[test] ${note}`);
+    console.log(`${this.passed} passed, ${this.failed} failed`);
+  }
+}
+
+/** Colours only when a person watches; no notice about Vite's future config loader on every run. */
+const vitestEnv: Env = {
+  VITE_CONFIG_NATIVE_IGNORE_WARNING: "true",
+  ...(process.stdout.isTTY ? { FORCE_COLOR: "1" } : { NO_COLOR: "1" }),
+};
+
+function vitestArgs(config: string | null, report: string, extra: string[]): string[] {
+  return [
+    "node_modules/vitest/vitest.mjs",
+    "run",
+    ...(config ? ["--config", config] : []),
+    "--reporter=default",
+    "--reporter=json",
+    `--outputFile.json=${report}`,
+    "--passWithNoTests",
+    ...extra,
+  ];
+}
+
+async function main(): Promise<number> {
+  const tally = new Tally();
+  let options: Options;
+  try {
+    options = parseArgs(process.argv.slice(2));
+  } catch (error) {
+    tally.fail((error as Error).message);
+    tally.print();
+    return 2;
+  }
+
+  const taken = acquireLock(path.join(DATA_DIR, "test.lock"), "scripts/test.ts");
+  if (!taken.ok) {
+    tally.fail(`the tests are already running (pid ${taken.holder.pid}); wait for them or stop them (kill ${taken.holder.pid})`);
+    tally.print();
+    return 1;
+  }
+  const { lock } = taken;
+
+  const forced: Env = {
+    PORT: WEB_PORT,
+    PGPORT: PG_PORT,
+    DATABASE_URL: `postgres://postgres@127.0.0.1:${PG_PORT}/tributary`,
+    APP_URL: `http://localhost:${WEB_PORT}`,
+    SMTP_HOST: "127.0.0.1",
+    SMTP_PORT,
+    SMTP_USER: "",
+    SMTP_PASS: "",
+    SMTP_SECURE: "false",
+    MAIL_SINK: "local",
+    AUTH_SECRET: randomSecret(),
+    AUTH_TRUST_HOST: "true",
+    NEXT_DIST_DIR: ".next-test",
+    NEXT_TELEMETRY_DISABLED: "1",
+  };
+  const env = resolveEnv({ defaults: startDefaults(), forced });
+  const logDir = path.join(DATA_DIR, "logs");
+  const stack: Stack = {
+    dataDir: DATA_DIR,
+    logDir,
+    env,
+    // A throwaway cluster: durability off makes migrations and tests faster.
+    pgExtraOpts: "-c fsync=off -c synchronous_commit=off -c full_page_writes=off",
+  };
+
+  // Stop a cluster left by a killed earlier run, then start from nothing (the lock file stays).
+  mkdirSync(DATA_DIR, { recursive: true });
+  const cleaner = new Supervisor({ logDir: path.join(DATA_DIR, "run"), label: "test" });
+  await cleaner.run({ name: "pg-stop", command: "bash", args: ["scripts/pg.sh", "stop"], env: pgEnv(stack), console: "none" });
+  for (const entry of readdirSync(DATA_DIR)) {
+    if (entry !== "test.lock") rmSync(path.join(DATA_DIR, entry), { recursive: true, force: true });
+  }
+  mkdirSync(logDir, { recursive: true });
+
+  const supervisor = new Supervisor({ logDir, label: "test", onChange: (children) => lock.update({ children }) });
+  supervisor.installSignalHandlers(() => {
+    tally.fail("interrupted");
+    lock.release();
+    tally.print();
+    process.exit(130);
+  });
+  const interrupted = () => new Promise<number>(() => {}); // the signal handler prints and exits
+
+  const started = Date.now();
+  try {
+    const ports = options.e2e
+      ? [
+          { name: "test web server", port: WEB_PORT, variable: "(fixed for tests)" },
+          { name: "test mail sink", port: SMTP_PORT, variable: "(fixed for tests)" },
+        ]
+      : [];
+    await assertPortsFree(ports);
+    // The build needs no database: it runs while PostgreSQL starts, migrates and seeds.
+    const build = options.e2e
+      ? buildIfNeeded(supervisor, stack).then(
+          () => true,
+          (error: unknown) => {
+            if (!supervisor.isStopping) tally.fail(`next build: ${(error as Error).message}`);
+            return false;
+          },
+        )
+      : Promise.resolve(false);
+    const [built] = await Promise.all([build, prepareDatabase(supervisor, stack)]);
+
+    if (options.unit) {
+      const code = await supervisor.run({
+        name: "createdb-it",
+        command: "bash",
+        args: ["scripts/pg.sh", "psql", "-q", "-c", `create database ${INTEGRATION_DB} template tributary`],
+        env: { ...pgEnv(stack), PGDATABASE: "postgres" },
+      });
+      if (code !== 0) throw new StepError(`could not create the integration database; see ${supervisor.logFile("createdb-it")}`);
+      const report = path.join(DATA_DIR, "vitest-unit.json");
+      supervisor.say("unit and integration tests (vitest.config.ts)");
+      const exitCode = await supervisor.run({
+        name: "vitest-unit",
+        command: process.execPath,
+        args: vitestArgs(null, report, options.vitestArgs),
+        env: { ...env, ...vitestEnv, DATABASE_URL: `postgres://postgres@127.0.0.1:${PG_PORT}/${INTEGRATION_DB}` },
+        console: "plain",
+      });
+      if (supervisor.isStopping) return interrupted();
+      tally.addVitest("unit + integration", report, exitCode);
+    }
+
+    if (options.e2e && built) {
+      try {
+        await startAppProcesses(supervisor, stack);
+      } catch (error) {
+        if (supervisor.isStopping) return interrupted();
+        tally.fail(`starting the app for browser tests: ${(error as Error).message}`);
+      }
+      if (supervisor.pids().some((p) => p.name === "web")) {
+        const report = path.join(DATA_DIR, "vitest-e2e.json");
+        supervisor.say(`browser tests (vitest.e2e.config.ts) against http://localhost:${WEB_PORT}`);
+        const exitCode = await supervisor.run({
+          name: "vitest-e2e",
+          command: process.execPath,
+          args: vitestArgs("vitest.e2e.config.ts", report, options.vitestArgs),
+          env: {
+            ...env,
+            ...vitestEnv,
+            E2E_BASE_URL: `http://localhost:${WEB_PORT}`,
+            E2E_LOG_DIR: path.resolve(logDir),
+            E2E_SCREEN_DIR: path.resolve(DATA_DIR, "screens"),
+          },
+          console: "plain",
+        });
+        if (supervisor.isStopping) return interrupted();
+        tally.addVitest("browser (e2e)", report, exitCode);
+      }
+    }
+  } catch (error) {
+    if (supervisor.isStopping) return interrupted();
+    tally.fail(error instanceof StepError ? error.message : String((error as Error).stack ?? error));
+  }
+
+  await supervisor.stopAll();
+  lock.release();
+  tally.notes.push(`took ${Math.round((Date.now() - started) / 1000)} s; logs in ${logDir}/`);
+  tally.print();
+  return tally.failed === 0 ? 0 : 1;
+}
+
+main().then(
+  (code) => process.exit(code),
+  (error: unknown) => {
+    console.error(error);
+    console.log("0 passed, 1 failed");
+    process.exit(1);
+  },
+);
