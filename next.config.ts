@@ -6,7 +6,8 @@ const nextConfig: NextConfig = {
   poweredByHeader: false,
   reactStrictMode: true,
   // Uploads of spend histories can be large; route handlers stream them, server actions stay small.
-  experimental: { serverActions: { bodySizeLimit: "2mb" } },
+  // authInterrupts: forbidden() in requirePageActor renders app/forbidden.tsx with status 403.
+  experimental: { serverActions: { bodySizeLimit: "2mb" }, authInterrupts: true },
   serverExternalPackages: ["@node-rs/argon2", "pg-boss", "smtp-server"],
 };
 

@@ -1,0 +1,2 @@
+import { handlers } from "@/server/auth";
+export const { GET, POST } = handlers;

@@ -1,0 +1,14 @@
+import Link from "next/link";
+
+export default function NotFound() {
+  return (
+    <main className="mx-auto flex min-h-[60vh] max-w-xl flex-col justify-center px-4 py-12">
+      <p className="text-sm font-medium uppercase tracking-wide text-slate-600">404</p>
+      <h1 className="mt-2 text-2xl font-semibold text-river">Nothing here</h1>
+      <p className="mt-3 text-slate-700">This page does not exist, or it belongs to another workspace.</p>
+      <p className="mt-6">
+        <Link href="/" className="font-medium text-shallows underline-offset-2 hover:underline">Back to home</Link>
+      </p>
+    </main>
+  );
+}
