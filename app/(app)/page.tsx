@@ -1,0 +1,104 @@
+import Link from "next/link";
+import type { Metadata } from "next";
+import { can, requirePageActor, roleDescriptions, roleLabels } from "@/server/authz";
+import { listAuditEventsByWorkspaceId } from "@/server/data/audit";
+import { listMembersByWorkspaceId } from "@/server/data/members";
+import { Section, RoleBadge } from "@/ui/section";
+import { describeAuditEvent } from "@/ui/audit-event";
+
+export const metadata: Metadata = { title: "Home" };
+
+export default async function HomePage() {
+  const actor = await requirePageActor("workspace:read");
+  const [events, members] = await Promise.all([
+    listAuditEventsByWorkspaceId({ workspaceId: actor.workspaceId, limit: 10 }),
+    listMembersByWorkspaceId(actor.workspaceId),
+  ]);
+  const firstName = (actor.name ?? actor.email).split(" ")[0];
+  const when = new Intl.DateTimeFormat(actor.locale, { dateStyle: "medium", timeStyle: "short", timeZone: "UTC" });
+
+  const nextSteps = [
+    can(actor, "dataset:upload") && { href: "/datasets", text: "Upload a spend history and build a fit" },
+    can(actor, "fit:review") && { href: "/fits", text: "Review fits waiting for approval" },
+    can(actor, "scenario:write") && { href: "/scenarios", text: "Move budget between channels on an approved fit" },
+    can(actor, "signoff:decide") && { href: "/compare", text: "Compare scenario versions side by side and sign off" },
+    can(actor, "workspace:admin") && { href: "/settings", text: "Invite members and manage their roles" },
+  ].filter((step): step is { href: string; text: string } => Boolean(step));
+
+  return (
+    <div className="flex flex-col gap-6">
+      <div>
+        <h1 className="text-2xl font-semibold text-river">Welcome, {firstName}</h1>
+        <p className="mt-1 text-slate-700">
+          You work in <strong>{actor.workspaceName}</strong> as{" "}
+          {actor.roles.map((role, i) => (
+            <span key={role}>
+              {i > 0 ? (i === actor.roles.length - 1 ? " and " : ", ") : ""}
+              {roleLabels[role].toLowerCase()}
+            </span>
+          ))}
+          . Amounts are in {actor.currency}.
+        </p>
+      </div>
+
+      <div className="grid gap-6 md:grid-cols-2">
+        <Section id="roles" title="Your roles">
+          <ul className="flex flex-col gap-3">
+            {actor.roles.map((role) => (
+              <li key={role} className="flex flex-col gap-1">
+                <span>
+                  <RoleBadge>{roleLabels[role]}</RoleBadge>
+                </span>
+                <span className="text-sm text-slate-700">{roleDescriptions[role]}</span>
+              </li>
+            ))}
+          </ul>
+          {nextSteps.length > 0 ? (
+            <>
+              <h3 className="mt-5 text-sm font-semibold text-slate-800">Where to start</h3>
+              <ul className="mt-2 flex flex-col gap-1 text-sm">
+                {nextSteps.map((step) => (
+                  <li key={step.href}>
+                    <Link href={step.href} className="text-shallows underline-offset-2 hover:underline">
+                      {step.text}
+                    </Link>
+                  </li>
+                ))}
+              </ul>
+            </>
+          ) : null}
+        </Section>
+
+        <Section id="workspace" title="Workspace" description={`${members.length} member${members.length === 1 ? "" : "s"}`}>
+          <ul className="flex flex-col divide-y divide-slate-100 text-sm">
+            {members.map((member) => (
+              <li key={member.userId} className="flex flex-wrap items-center justify-between gap-2 py-1.5">
+                <span>{member.name ?? member.email}</span>
+                <span className="text-xs text-slate-600">{member.roles.map((role) => roleLabels[role]).join(" · ")}</span>
+              </li>
+            ))}
+          </ul>
+        </Section>
+      </div>
+
+      <Section id="activity" title="Recent activity" description="The latest changes in this workspace, newest first.">
+        {events.length === 0 ? (
+          <p className="text-sm text-slate-700">No activity yet.</p>
+        ) : (
+          <ol className="flex flex-col divide-y divide-slate-100 text-sm">
+            {events.map((event) => (
+              <li key={event.id} className="flex flex-wrap justify-between gap-2 py-2">
+                <span>
+                  <strong className="font-medium">{event.actorName ?? event.actorEmail ?? "Someone"}</strong> {describeAuditEvent(event)}
+                </span>
+                <time className="num text-slate-500" dateTime={event.at.toISOString()}>
+                  {when.format(event.at)} UTC
+                </time>
+              </li>
+            ))}
+          </ol>
+        )}
+      </Section>
+    </div>
+  );
+}

@@ -1,0 +1,32 @@
+import type { AuditEventDto } from "@/server/data/audit";
+
+const str = (value: unknown) => (typeof value === "string" ? value : "");
+const list = (value: unknown) => (Array.isArray(value) ? value.map(String).join(", ") : "");
+
+/**
+ * A short phrase for an audit entry ("invited ana@… as analyst"). Features add their actions here;
+ * unknown actions fall back to the action name.
+ */
+export function describeAuditEvent(event: Pick<AuditEventDto, "action" | "details" | "objectType">): string {
+  const d = event.details ?? {};
+  switch (event.action) {
+    case "member.invited":
+      return `invited ${str(d.email)} as ${list(d.roles)}`;
+    case "member.joined":
+      return `joined as ${list(d.roles)}`;
+    case "member.roles_changed":
+      return `changed a member's roles from ${list(d.before)} to ${list(d.after)}`;
+    case "member.removed":
+      return "removed a member";
+    case "invitation.revoked":
+      return `withdrew the invitation to ${str(d.email)}`;
+    case "api_token.created":
+      return `created an API token (${str(d.prefix)}…)`;
+    case "api_token.revoked":
+      return `revoked an API token (${str(d.prefix)}…)`;
+    case "workspace.settings_changed":
+      return "changed the workspace settings";
+    default:
+      return `${event.action.replace(/[._]/g, " ")}`;
+  }
+}
