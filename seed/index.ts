@@ -1,0 +1,28 @@
+// Seeds the demo company (idempotent: every step creates only what is missing). Run by `npm start`
+// after the migrations; by hand: `npm run seed` (DATABASE_URL must point at a migrated database).
+import { getDatabase } from "@/db/client";
+import { seedUsers } from "./users";
+
+type Step = { name: string; run: (db: ReturnType<typeof getDatabase>["db"]) => Promise<unknown> };
+
+// One entry per area, in dependency order; later areas (the demo spend history, an approved demo
+// fit, scenarios) add their step below the users.
+const steps: Step[] = [{ name: "workspaces, demo users and roles", run: seedUsers }];
+
+async function main() {
+  const { db, sql } = getDatabase();
+  try {
+    for (const step of steps) {
+      const started = Date.now();
+      await step.run(db);
+      console.log(`seed: ${step.name} (${Date.now() - started} ms)`);
+    }
+  } finally {
+    await sql.end();
+  }
+}
+
+main().catch((error: unknown) => {
+  console.error(`Seeding failed: ${error instanceof Error ? error.message.split("\n")[0] : String(error)}`);
+  process.exit(1);
+});
