@@ -9,5 +9,7 @@ export default defineConfig({
     hookTimeout: 120_000,
     pool: "forks",
     fileParallelism: false,
+    // next-auth imports "next/server" without an extension, which Node's ESM resolver refuses; let Vite resolve it.
+    server: { deps: { inline: ["next-auth"] } },
   },
 });
