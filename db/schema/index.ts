@@ -3,3 +3,4 @@ export * from "./auth";
 export * from "./workspaces";
 export * from "./jobs";
 export * from "./mail";
+export * from "./datasets";
