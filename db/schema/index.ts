@@ -4,3 +4,4 @@ export * from "./workspaces";
 export * from "./jobs";
 export * from "./mail";
 export * from "./datasets";
+export * from "./fits";
