@@ -57,32 +57,39 @@ export function rangeExcursion(name: string, value: number, range: ObservedRange
   };
 }
 
+/** Values outside their ranges, for parallel arrays of names and values. */
+function excursions(
+  names: readonly string[],
+  valueOf: (index: number) => number,
+  ranges: Readonly<Record<string, ObservedRange>>,
+): RangeExcursion[] {
+  const found: RangeExcursion[] = [];
+  for (let index = 0; index < names.length; index++) {
+    const range = ranges[names[index]];
+    const excursion = range === undefined ? null : rangeExcursion(names[index], valueOf(index), range);
+    if (excursion !== null) found.push(excursion);
+  }
+  return found;
+}
+
 /**
  * Builds the report for one point. Cost: O(p).
  *
- * @param columnValues raw column values read by the specification
- * @param termValues design row x₀ with its term names
+ * @param point raw column values; `columnNames` are the columns the specification reads
+ * @param termValues design row x₀, in the order of `termNames`
  */
 export function extrapolationReport(
-  columnValues: readonly { name: string; value: number }[],
-  termValues: readonly { name: string; value: number }[],
+  columnNames: readonly string[],
+  point: Readonly<Record<string, number>>,
+  termNames: readonly string[],
+  termValues: Float64Array,
   columnRanges: Readonly<Record<string, ObservedRange>>,
   termRanges: Readonly<Record<string, ObservedRange>>,
   leverage: number,
   maxTrainingLeverage: number,
 ): ExtrapolationReport {
-  const columns: RangeExcursion[] = [];
-  for (const { name, value } of columnValues) {
-    const range = columnRanges[name];
-    const excursion = range === undefined ? null : rangeExcursion(name, value, range);
-    if (excursion !== null) columns.push(excursion);
-  }
-  const terms: RangeExcursion[] = [];
-  for (const { name, value } of termValues) {
-    const range = termRanges[name];
-    const excursion = range === undefined ? null : rangeExcursion(name, value, range);
-    if (excursion !== null) terms.push(excursion);
-  }
+  const columns = excursions(columnNames, (index) => point[columnNames[index]], columnRanges);
+  const terms = excursions(termNames, (index) => termValues[index], termRanges);
   // A relative margin keeps a training point itself (h₀ = h_max up to rounding) from being flagged.
   const hiddenExtrapolation = leverage > maxTrainingLeverage * (1 + 1e-9);
   return {

@@ -10,7 +10,7 @@ import { type CoefficientSummary, summariseCoefficients } from "./coefficient-in
 import { type Collinearity, collinearityDiagnostics } from "./collinearity";
 import { type CovarianceChoice, type CovarianceType, resolveCovarianceChoice } from "./covariance-choice";
 import { type GoodnessOfFit, goodnessOfFit, waldStatistic } from "./goodness-of-fit";
-import type { ModelSpecification } from "./model-specification";
+import { type ModelSpecification, predictorColumns } from "./model-specification";
 import {
   cooksDistances,
   durbinWatson,
@@ -170,6 +170,7 @@ function completeFit(
   const predictionModel: PredictionModel = {
     specification: design.specification,
     termNames,
+    columnNames: predictorColumns(design.specification),
     estimableColumns,
     aliasedTerms: solution.aliasedTerms,
     coefficients: estimableEstimates,

@@ -12,7 +12,7 @@
 import { canonicalJson } from "./canonical-json";
 import type { CovarianceType } from "./covariance-choice";
 import type { LeastSquaresFit } from "./fit-least-squares";
-import { type ModelSpecification, designTermNames, parseModelSpecification } from "./model-specification";
+import { type ModelSpecification, designTermNames, parseModelSpecification, predictorColumns } from "./model-specification";
 import type { ObservedRange } from "./observed-range";
 import type { PredictionModel } from "./prediction-model";
 import { sha256Hex } from "./sha256";
@@ -205,6 +205,7 @@ export function predictionModelFromRecord(record: FitRecord): PredictionModel {
   const model: PredictionModel = {
     specification: record.specification,
     termNames: record.termNames,
+    columnNames: predictorColumns(record.specification),
     estimableColumns: record.estimableTerms.map((term) => record.termNames.indexOf(term)),
     aliasedTerms: record.aliasedTerms,
     coefficients: Float64Array.from(record.coefficients),

@@ -21,7 +21,6 @@
 import { type ExtrapolationReport, extrapolationReport } from "./extrapolation";
 import type { LeastSquaresFit } from "./fit-least-squares";
 import { type FitRecord, predictionModelFromRecord } from "./fit-record";
-import { predictorColumns } from "./model-specification";
 import { type PredictionModel, criticalValueFor } from "./prediction-model";
 import { type NamedPoint, evaluateScenarioPoint } from "./scenario-point";
 
@@ -122,8 +121,10 @@ function analysePoint(model: PredictionModel, point: NamedPoint, caller: string)
     leverage += sum * sum;
   }
   const report = extrapolationReport(
-    predictorColumns(model.specification).map((name) => ({ name, value: point[name] })),
-    model.termNames.map((name, index) => ({ name, value: row[index] })),
+    model.columnNames,
+    point,
+    model.termNames,
+    row,
     model.columnRanges,
     model.termRanges,
     leverage,

@@ -13,6 +13,8 @@ export interface PredictionModel {
   specification: ModelSpecification;
   /** All design column names, aliased ones included. */
   termNames: readonly string[];
+  /** Raw predictor columns a scenario point must provide (see `predictorColumns`). */
+  columnNames: readonly string[];
   /** Design columns that have coefficients (indices into termNames). */
   estimableColumns: readonly number[];
   aliasedTerms: readonly string[];

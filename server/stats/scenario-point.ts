@@ -29,12 +29,11 @@ export function evaluateScenarioPoint(
     if (!Number.isFinite(entry)) throw new Error(`${caller} requires a finite value for column '${column}' (got ${entry})`);
     return entry;
   };
+  const { terms } = specification;
   const offset = specification.intercept ? 1 : 0;
-  const row = new Float64Array(specification.terms.length + offset);
-  if (specification.intercept) row[0] = 1;
-  specification.terms.forEach((term, index) => {
-    row[index + offset] = evaluateTermAtPoint(term, value, caller);
-  });
+  const row = new Float64Array(terms.length + offset);
+  if (offset === 1) row[0] = 1;
+  for (let index = 0; index < terms.length; index++) row[index + offset] = evaluateTermAtPoint(terms[index], value, caller);
   return row;
 }
 

@@ -1,0 +1,86 @@
+// One measurement in a fresh process, so that peak resident memory (getrusage's maxRSS) belongs
+// to this measurement alone. Prints one JSON line.
+import { Matrix, QrDecomposition } from "ml-matrix";
+import { fitLeastSquares, solveLeastSquares } from "../server/stats";
+import { generateDesign } from "./fit-data";
+
+const gc = (globalThis as { gc?: () => void }).gc ?? (() => {});
+const megabyte = 1024 * 1024;
+
+function peakResidentBytes(): number {
+  return process.resourceUsage().maxRSS * 1024;
+}
+
+function median(values: number[]): number {
+  const sorted = [...values].sort((a, b) => a - b);
+  return sorted[Math.floor(sorted.length / 2)];
+}
+
+export function runChild(mode: string, rowCount: number, columnCount: number, repetitions: number): void {
+  if (mode === "engine") {
+    // Warm the JIT on a small problem of the same shape first.
+    const warm = generateDesign(20_000, columnCount, 7);
+    fitLeastSquares(warm);
+    solveLeastSquares(warm);
+    const design = generateDesign(rowCount, columnCount);
+    gc();
+    const baseline = process.memoryUsage().rss;
+    const solveSeconds: number[] = [];
+    let estimates: number[] = [];
+    let refinementSteps = 0;
+    for (let repetition = 0; repetition < repetitions; repetition++) {
+      const start = performance.now();
+      const solution = solveLeastSquares(design);
+      solveSeconds.push((performance.now() - start) / 1000);
+      estimates = Array.from(solution.estimates);
+      refinementSteps = solution.accuracy.solutionRefinementSteps + solution.accuracy.inverseRefinementSteps;
+    }
+    const solvePeak = peakResidentBytes() - baseline;
+    gc();
+    const fullSeconds: number[] = [];
+    let conditionNumber = 0;
+    for (let repetition = 0; repetition < repetitions; repetition++) {
+      const start = performance.now();
+      const fit = fitLeastSquares(design);
+      // Read every lazily computed diagnostic so the timing covers all of them.
+      const touched =
+        fit.fittedValues[0] + fit.studentizedResiduals[0] + fit.externallyStudentizedResiduals[0] + fit.cooksDistances[0];
+      fullSeconds.push((performance.now() - start) / 1000);
+      conditionNumber = fit.conditionNumber + 0 * touched;
+    }
+    const fullPeak = peakResidentBytes() - baseline;
+    console.log(
+      JSON.stringify({
+        solveSeconds: Math.min(...solveSeconds),
+        solveMedianSeconds: median(solveSeconds),
+        fullSeconds: Math.min(...fullSeconds),
+        fullMedianSeconds: median(fullSeconds),
+        solvePeakMegabytes: solvePeak / megabyte,
+        fullPeakMegabytes: fullPeak / megabyte,
+        estimates,
+        refinementSteps,
+        conditionNumber,
+      }),
+    );
+    return;
+  }
+  // ml-matrix baseline: the same data as an ml-matrix Matrix, then QrDecomposition(X).solve(y).
+  const design = generateDesign(rowCount, columnCount);
+  const matrix = new Matrix(rowCount, columnCount);
+  for (let column = 0; column < columnCount; column++) {
+    for (let row = 0; row < rowCount; row++) matrix.set(row, column, design.values[column * rowCount + row]);
+  }
+  const outcome = Matrix.columnVector(Array.from(design.outcome));
+  gc();
+  const baseline = process.memoryUsage().rss;
+  const start = performance.now();
+  const solution = new QrDecomposition(matrix).solve(outcome);
+  const seconds = (performance.now() - start) / 1000;
+  console.log(
+    JSON.stringify({
+      seconds,
+      peakMegabytes: (peakResidentBytes() - baseline) / megabyte,
+      estimates: solution.to1DArray(),
+    }),
+  );
+}
