@@ -5,3 +5,4 @@ export * from "./jobs";
 export * from "./mail";
 export * from "./datasets";
 export * from "./fits";
+export * from "./scenarios";
