@@ -7,9 +7,9 @@
  * (the error-free sum). The error-free product below uses Veltkamp's splitting because JavaScript
  * has no fused multiply-add.
  *
- * The hot loops of the refinement inline these steps for speed (a call per element costs more
- * than the arithmetic); the functions here are the readable statement of the same algebra and are
- * used where speed does not matter.
+ * The hot loops (term values, refinement residuals, the Gram matrix) inline these two steps for
+ * speed — a call per element costs more than the arithmetic; the functions here are the readable
+ * statement of the same algebra, and the tests check them exactly.
  */
 
 /** 2^27 + 1: multiplying by it and subtracting splits a double into two 26-bit halves. */
@@ -46,37 +46,4 @@ export function twoProduct(a: number, b: number): DoubleDouble {
   const bLow = b - bHigh;
   const error = aHigh * bHigh - product + aHigh * bLow + aLow * bHigh + aLow * bLow;
   return { high: product, low: error };
-}
-
-/** Sum of two double-double values, renormalised. Relative error about 2^-104. */
-export function addDoubleDouble(a: DoubleDouble, b: DoubleDouble): DoubleDouble {
-  const sum = twoSum(a.high, b.high);
-  const low = sum.low + a.low + b.low;
-  const high = sum.high + low;
-  return { high, low: low - (high - sum.high) };
-}
-
-/** Product of a double-double and a double, renormalised. Relative error about 2^-103. */
-export function multiplyDoubleDoubleByDouble(a: DoubleDouble, b: number): DoubleDouble {
-  const product = twoProduct(a.high, b);
-  const low = product.low + a.low * b;
-  const high = product.high + low;
-  return { high, low: low - (high - product.high) };
-}
-
-/**
- * Dot product accumulated in double-double (the Ogita–Rump–Oishi "Dot2" idea): the result is as
- * accurate as if computed in twice the working precision and then rounded. Cost: about 25n flops.
- */
-export function dotProductDoubleDouble(a: ArrayLike<number>, b: ArrayLike<number>): DoubleDouble {
-  let high = 0;
-  let low = 0;
-  for (let index = 0; index < a.length; index++) {
-    const product = twoProduct(a[index], b[index]);
-    const sum = twoSum(high, product.high);
-    low += sum.low + product.low;
-    high = sum.high;
-  }
-  const renormalised = high + low;
-  return { high: renormalised, low: low - (renormalised - high) };
 }

@@ -118,8 +118,11 @@ function completeFit(
   const residualDegreesOfFreedom = rowCount - rank;
   const warnings: string[] = [];
   if (solution.aliasedTerms.length > 0) {
+    const named = solution.aliasedTerms.map((term) => `'${term}'`).join(", ");
     warnings.push(
-      `terms ${solution.aliasedTerms.map((term) => `'${term}'`).join(", ")} are linear combinations of earlier terms (aliased) and were left out`,
+      solution.aliasedTerms.length === 1
+        ? `term ${named} is a linear combination of earlier terms (aliased) and was left out`
+        : `terms ${named} are linear combinations of earlier terms (aliased) and were left out`,
     );
   }
 

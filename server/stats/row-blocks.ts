@@ -47,14 +47,34 @@ export function passOverRows(
   for (let start = 0; start < rowCount; start += diagnosticRowsPerBlock) {
     const count = Math.min(diagnosticRowsPerBlock, rowCount - start);
     const end = start + count;
-    transformed.fill(0, 0, count * rank);
-    // U[:, k] = Σ_{j ≤ k} X[:, j] (R⁻¹)ⱼₖ, one axpy per non-zero of the triangle.
-    for (let inner = 0; inner < rank; inner++) {
-      const column = columns[inner];
-      for (let target = inner; target < rank; target++) {
+    // U[:, k] = Σ_{j ≤ k} X[:, j] (R⁻¹)ⱼₖ, four source columns per sweep so each entry of U is
+    // loaded and stored once per four multiply-adds; hᵢ accumulates ‖uᵢ‖² column by column.
+    for (let target = 0; target < rank; target++) {
+      const offset = target * count - start;
+      transformed.fill(0, target * count, (target + 1) * count);
+      let inner = 0;
+      for (; inner + 3 <= target; inner += 4) {
+        const columnA = columns[inner];
+        const columnB = columns[inner + 1];
+        const columnC = columns[inner + 2];
+        const columnD = columns[inner + 3];
+        const factorA = inverseUpper[inner * rank + target];
+        const factorB = inverseUpper[(inner + 1) * rank + target];
+        const factorC = inverseUpper[(inner + 2) * rank + target];
+        const factorD = inverseUpper[(inner + 3) * rank + target];
+        for (let row = start; row < end; row++) {
+          transformed[offset + row] +=
+            columnA[row] * factorA + columnB[row] * factorB + columnC[row] * factorC + columnD[row] * factorD;
+        }
+      }
+      for (; inner <= target; inner++) {
+        const column = columns[inner];
         const factor = inverseUpper[inner * rank + target];
-        const offset = target * count - start;
         for (let row = start; row < end; row++) transformed[offset + row] += column[row] * factor;
+      }
+      for (let row = start; row < end; row++) {
+        const value = transformed[offset + row];
+        leverages[row] += value * value;
       }
     }
     if (refinedResiduals === null) {
@@ -64,10 +84,6 @@ export function passOverRows(
         const coefficient = coefficients[inner];
         for (let row = start; row < end; row++) residuals[row] -= column[row] * coefficient;
       }
-    }
-    for (let target = 0; target < rank; target++) {
-      const offset = target * count - start;
-      for (let row = start; row < end; row++) leverages[row] += transformed[offset + row] ** 2;
     }
     if (visitors.length > 0) {
       const block: RowBlock = {

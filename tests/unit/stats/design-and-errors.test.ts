@@ -1,5 +1,6 @@
 // Term specification, design matrix construction, and the engine's input errors.
 import { describe, expect, it } from "vitest";
+import { twoProduct, twoSum } from "@/server/stats/double-double";
 import {
   buildDesign,
   evaluateScenarioPoint,
@@ -175,3 +176,19 @@ function exactCube(value: number): bigint {
   const scaled = toScaledBigInt(value);
   return (scaled * scaled * scaled) >> (2n * scaleBits);
 }
+
+describe("double-double building blocks", () => {
+  it("split sums and products exactly: a + b = s + e and a × b = p + e", () => {
+    const values = [0.1, 1 / 3, -2.718281828459045, 1e10 + 0.5, 7.000000000000001, -1e-7];
+    for (const a of values) {
+      for (const b of values) {
+        const sum = twoSum(a, b);
+        expect(toScaledBigInt(sum.high) + toScaledBigInt(sum.low)).toBe(toScaledBigInt(a) + toScaledBigInt(b));
+        const product = twoProduct(a, b);
+        expect((toScaledBigInt(product.high) + toScaledBigInt(product.low)) << scaleBits).toBe(
+          toScaledBigInt(a) * toScaledBigInt(b),
+        );
+      }
+    }
+  });
+});
