@@ -42,7 +42,7 @@ const everyMember: Permission[] = ["workspace:read", "token:manage"];
 export const permissionsByRole: Record<Role, readonly Permission[]> = {
   admin: [...everyMember, "workspace:admin", "mail:outbox", "audit:read", "dataset:read", "fit:read", "scenario:read", "comparison:read"],
   analyst: [...everyMember, "dataset:read", "dataset:upload", "fit:read", "fit:create", "fit:submit", "fit:retire", "fit:predict"],
-  reviewer: [...everyMember, "dataset:read", "fit:read", "fit:review", "fit:retire", "fit:predict", "audit:read"],
+  reviewer: [...everyMember, "dataset:read", "fit:read", "fit:review", "fit:retire", "fit:predict", "audit:read", "scenario:read"],
   planner: [
     ...everyMember,
     "fit:read",
