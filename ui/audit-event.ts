@@ -24,6 +24,8 @@ export function describeAuditEvent(event: Pick<AuditEventDto, "action" | "detail
       return `created an API token (${str(d.prefix)}…)`;
     case "api_token.revoked":
       return `revoked an API token (${str(d.prefix)}…)`;
+    case "workspace.created":
+      return "created the workspace";
     case "workspace.settings_changed":
       return "changed the workspace settings";
     default:

@@ -22,7 +22,7 @@ export function LoginForm({ callbackUrl, email }: { callbackUrl?: string; email?
         errors={fieldErrors.email}
       />
       <TextField label="Password" name="password" type="password" autoComplete="current-password" required errors={fieldErrors.password} />
-      <FormMessage id="sign-in-message" state={state.status === "invalid_data" ? { status: "idle" } : state} />
+      <FormMessage id="sign-in-message" state={state} />
       <SubmitButton pendingLabel="Signing in…">Sign in</SubmitButton>
     </form>
   );
