@@ -18,7 +18,7 @@ afterAll(async () => {
 const navByEmail: Record<string, string[]> = {
   "admin@larkspur.example": ["Home", "Spend histories", "Fits", "Scenarios", "Side by side", "Settings"],
   "analyst@larkspur.example": ["Home", "Spend histories", "Fits", "Settings"],
-  "reviewer@larkspur.example": ["Home", "Spend histories", "Fits", "Settings"],
+  "reviewer@larkspur.example": ["Home", "Spend histories", "Fits", "Scenarios", "Settings"],
   "planner@larkspur.example": ["Home", "Fits", "Scenarios", "Side by side", "Settings"],
   "finance@larkspur.example": ["Home", "Fits", "Scenarios", "Side by side", "Settings"],
   "sam@larkspur.example": ["Home", "Spend histories", "Fits", "Scenarios", "Side by side", "Settings"],
