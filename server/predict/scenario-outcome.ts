@@ -281,7 +281,7 @@ function combinationWarning(shape: PlanShape, reports: ExtrapolationReport[]): S
     parts.push(` (leverage ${leverage.toPrecision(3)}, above the largest of any past ${shape.periodNoun}, ${maxTrainingLeverage.toPrecision(3)})`);
   }
   if (terms.length > 0) parts.push(`${hidden.length > 0 ? ";" : ":"} ${terms.join(", ")} ${terms.length === 1 ? "is" : "are"} outside the observed range`);
-  parts.push(". The model has no data here; treat the number as a guess.");
+  parts.push(".");
   return { kind: "hidden-extrapolation", leverage, maxTrainingLeverage, terms, message: parts.join("") };
 }
 

@@ -165,7 +165,7 @@ describe("POST /api/fits/{id}/predict", () => {
     const hidden = await callPredict(setup.fit.fitId, unseen);
     expect(hidden.body.warnings.filter((item) => item.kind === "outside-range")).toEqual([]);
     expect(hidden.body.leverage).toBeGreaterThan(hidden.body.maxTrainingLeverage);
-    expect(hidden.body.warnings).toContainEqual(expect.objectContaining({ kind: "hidden-extrapolation", message: expect.stringMatching(/never seen together.*treat the number as a guess/) }));
+    expect(hidden.body.warnings).toContainEqual(expect.objectContaining({ kind: "hidden-extrapolation", message: expect.stringMatching(/^This mix of spend was never seen together in the history \(leverage [\d.]+, above the largest of any past week, [\d.]+\)\.$/) }));
   });
 
   it("refuses unknown or missing channels, negative amounts and bad controls with 422", async () => {
