@@ -83,11 +83,11 @@ function centredCorrelations(columns: readonly Float64Array[]): Float64Array {
   const size = columns.length;
   const means = columns.map((values) => {
     let sum = 0;
-    for (const value of values) sum += value;
+    for (let row = 0; row < values.length; row++) sum += values[row];
     const mean = sum / values.length;
     // One correction pass (Chan, Golub & LeVeque): the mean of the deviations from the first mean.
     let deviationSum = 0;
-    for (const value of values) deviationSum += value - mean;
+    for (let row = 0; row < values.length; row++) deviationSum += values[row] - mean;
     return mean + deviationSum / values.length;
   });
   const crossProducts = new Float64Array(size * size);

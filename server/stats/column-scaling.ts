@@ -10,45 +10,58 @@
  * The same pass checks every value is finite, so the factorisation never meets NaN or Infinity.
  */
 
-/** What one pass over a column learns. */
-export interface ColumnSummary {
-  /** Euclidean norm of the column. */
-  norm: number;
-  /** Power-of-two factor that brings the norm into [1/√2, √2]; 1 for a zero column. */
-  scale: number;
-  minimum: number;
-  maximum: number;
+/** Rows sampled to choose a column's scale: enough for its magnitude, far fewer than n. */
+export const scaleSampleRows = 4096;
+
+/**
+ * The exact power-of-two factor that brings a column's root-mean-square value times √n — its
+ * norm — to about 1, estimated from an evenly spaced sample of rows (a full pass only when the
+ * sample is all zeros). Equilibration need not be exact to work, only exact in arithmetic, so a
+ * sample saves a pass over the data. Non-finite values are caught later, from R.
+ *
+ * Cost: O(min(n, 4,096)).
+ */
+export function equilibratingScale(values: Float64Array): number {
+  const rowCount = values.length;
+  const stride = Math.max(1, Math.floor(rowCount / scaleSampleRows));
+  let sumOfSquares = 0;
+  let sampled = 0;
+  for (let row = 0; row < rowCount; row += stride) {
+    const value = values[row];
+    sumOfSquares += value * value;
+    sampled += 1;
+  }
+  if (sumOfSquares === 0 && stride > 1) {
+    for (let row = 0; row < rowCount; row++) sumOfSquares += values[row] * values[row];
+    sampled = rowCount;
+  }
+  return scaleFromNorm(Math.sqrt((sumOfSquares / sampled) * rowCount));
+}
+
+/** 2^−round(log₂ norm), clamped so the factor stays a normal double; 1 for zero or non-finite norms. */
+export function scaleFromNorm(norm: number): number {
+  if (!(norm > 0) || !Number.isFinite(norm)) return 1;
+  const exponent = Math.min(1000, Math.max(-1000, -Math.round(Math.log2(norm))));
+  return 2 ** exponent;
 }
 
 /**
- * Norm, range and exact equilibrating scale of a column.
- *
- * @throws naming the column and row of the first non-finite value
- * Cost: O(n).
+ * Throws naming the first non-finite value among the columns (called when R came out non-finite:
+ * any NaN or infinity in the data reaches R's diagonal). Cost: O(np) in the worst case.
  */
-export function summariseColumn(values: Float64Array, name: string, caller: string): ColumnSummary {
-  let sumOfSquares = 0;
-  let largestMagnitude = 0;
-  let minimum = Infinity;
-  let maximum = -Infinity;
-  for (let row = 0; row < values.length; row++) {
-    const value = values[row];
-    sumOfSquares += value * value;
-    if (value < minimum) minimum = value;
-    if (value > maximum) maximum = value;
-  }
-  if (!Number.isFinite(minimum) || !Number.isFinite(maximum) || Number.isNaN(sumOfSquares)) {
-    const row = values.findIndex((value) => !Number.isFinite(value));
-    throw new Error(`${caller} requires finite values ('${name}' row ${row} is ${values[row]})`);
-  }
-  largestMagnitude = Math.max(Math.abs(minimum), Math.abs(maximum));
-  // Squares of values beyond ~1e154 overflow; the largest magnitude then stands in for the norm
-  // (within a factor √n, which only loosens the equilibration a little).
-  const norm = Number.isFinite(sumOfSquares) && (sumOfSquares > 0 || largestMagnitude === 0)
-    ? Math.sqrt(sumOfSquares)
-    : largestMagnitude;
-  // Clamped so the factor itself stays a normal double even for subnormal or huge columns.
-  const exponent = Math.min(1000, Math.max(-1000, -Math.round(Math.log2(norm))));
-  const scale = norm === 0 ? 1 : 2 ** exponent;
-  return { norm, scale, minimum, maximum };
+export function assertFinite(columns: readonly Float64Array[], names: readonly string[], caller: string): void {
+  columns.forEach((values, index) => {
+    for (let row = 0; row < values.length; row++) {
+      if (!Number.isFinite(values[row])) {
+        throw new Error(`${caller} requires finite values ('${names[index]}' row ${row} is ${values[row]})`);
+      }
+    }
+  });
+}
+
+/** Whether every value equals the first (a constant column). Cost: O(n), usually O(1). */
+export function isConstant(values: Float64Array): boolean {
+  const first = values[0];
+  for (let row = 1; row < values.length; row++) if (values[row] !== first) return false;
+  return true;
 }

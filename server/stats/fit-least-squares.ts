@@ -136,14 +136,14 @@ function completeFit(
   if (solution.refinedResiduals === null) {
     // Use the residual vector itself so σ, studentized residuals and Cook's distances agree.
     residualSumOfSquares = 0;
-    for (const residual of residuals) residualSumOfSquares += residual * residual;
+    for (let row = 0; row < rowCount; row++) residualSumOfSquares += residuals[row] * residuals[row];
   }
   const residualVariance = residualSumOfSquares / residualDegreesOfFreedom;
   const residualStandardError = Math.sqrt(residualVariance);
   if (residualSumOfSquares === 0) warnings.push("the fit is exact: residuals are zero, so standard errors are zero");
 
   let maxLeverage = 0;
-  for (const leverage of leverages) maxLeverage = Math.max(maxLeverage, leverage);
+  for (let row = 0; row < rowCount; row++) if (leverages[row] > maxLeverage) maxLeverage = leverages[row];
   const classicalCovariance = Float64Array.from(solution.inverseGram, (value) => value * residualVariance);
   const covariance = accumulator === null ? classicalCovariance : sandwich(solution.inverseUpper, accumulator.finish(), rank);
   if (covarianceChoice.type === "hc3" && maxLeverage >= 1 - 1e-12) {

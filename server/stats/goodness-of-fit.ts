@@ -36,13 +36,13 @@ export function totalSumOfSquares(outcome: Float64Array, centred: boolean): numb
   const count = outcome.length;
   let mean = 0;
   if (centred) {
-    for (const value of outcome) mean += value;
+    for (let row = 0; row < count; row++) mean += outcome[row];
     mean /= count;
   }
   let sumOfSquares = 0;
   let deviationSum = 0;
-  for (const value of outcome) {
-    const deviation = value - mean;
+  for (let row = 0; row < count; row++) {
+    const deviation = outcome[row] - mean;
     sumOfSquares += deviation * deviation;
     deviationSum += deviation;
   }

@@ -25,7 +25,7 @@ export function residualsDoubleDouble(
   estimates: ArrayLike<number>,
 ): DoubleDoubleResiduals {
   const rowCount = outcome.length;
-  const high = Float64Array.from(outcome);
+  const high = outcome.slice();
   const low = new Float64Array(rowCount);
   for (let column = 0; column < columns.length; column++) {
     const values = columns[column];

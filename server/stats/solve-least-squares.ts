@@ -6,7 +6,7 @@
 
 import type { Design } from "./build-design";
 import { removeColumnFromUpperTriangular } from "./column-removal";
-import { type ColumnSummary, summariseColumn } from "./column-scaling";
+import { assertFinite, equilibratingScale, isConstant } from "./column-scaling";
 import { scaledConditionNumber } from "./condition-number";
 import { factorTallSkinny } from "./householder-tall-skinny";
 import { refineInverseGram } from "./inverse-refinement";
@@ -124,7 +124,7 @@ export interface LeastSquaresSolution {
  *
  * @throws "fitLeastSquares requires more observations (n = 3) than terms (p = 3)" and similar
  *   messages for non-finite values, a constant outcome, or a design with no non-zero column.
- * Cost: 2n(p + 1)² flops for the QR, plus about 55np flops per refinement step and 12.5np² for
+ * Cost: 2n(p + 1)² flops for the QR (the only full pass over the data when refinement is not needed), plus about 55np flops per refinement step and 12.5np² for
  *   the Gram matrix when refinement runs; memory (p + 1) × 1,024 doubles beyond the data
  *   (plus 2n for double-double residuals when refining).
  */
@@ -136,18 +136,25 @@ export function solveLeastSquares(design: Design, options: SolveOptions = {}, ca
     throw new Error(`${caller} requires more observations (n = ${rowCount}) than terms (p = ${columnCount})`);
   }
   const columns = termNames.map((_, index) => design.values.subarray(index * rowCount, (index + 1) * rowCount));
-  const summaries: ColumnSummary[] = columns.map((values, index) => summariseColumn(values, termNames[index], caller));
   const outcomeName = design.specification.outcome;
-  const outcomeSummary = summariseColumn(design.outcome, outcomeName, caller);
-  if (outcomeSummary.minimum === outcomeSummary.maximum) {
-    throw new Error(
-      `${caller} requires an outcome that varies (all ${rowCount} values of '${outcomeName}' equal ${outcomeSummary.minimum})`,
-    );
-  }
 
   // Factor [X y] with every column scaled by an exact power of two.
-  const scales = Float64Array.from([...summaries.map((summary) => summary.scale), outcomeSummary.scale]);
+  const scales = Float64Array.from([...columns, design.outcome], equilibratingScale);
   let augmentedUpper = factorTallSkinny([...columns, design.outcome], scales, rowCount);
+  if (!augmentedUpper.every(Number.isFinite)) {
+    assertFinite([...columns, design.outcome], [...termNames, outcomeName], caller);
+  }
+  if (isConstant(design.outcome)) {
+    throw new Error(
+      `${caller} requires an outcome that varies (all ${rowCount} values of '${outcomeName}' equal ${design.outcome[0]})`,
+    );
+  }
+  // ‖x̃ⱼ‖ = ‖R̃[:, j]‖ (Q is orthogonal): the column norms for the rank test come free with R.
+  const scaledColumnNorms = termNames.map((_, column) => {
+    let sumOfSquares = 0;
+    for (let row = 0; row <= column; row++) sumOfSquares += augmentedUpper[row * (columnCount + 1) + column] ** 2;
+    return Math.sqrt(sumOfSquares);
+  });
 
   // Rank: drop, one at a time, each column whose diagonal is negligible next to its own norm.
   const kept = termNames.map((_, index) => index);
@@ -155,8 +162,7 @@ export function solveLeastSquares(design: Design, options: SolveOptions = {}, ca
   for (let position = 0; position < kept.length; ) {
     const size = kept.length + 1;
     const column = kept[position];
-    const scaledNorm = summaries[column].norm * summaries[column].scale;
-    if (Math.abs(augmentedUpper[position * size + position]) > rankTolerance * scaledNorm) {
+    if (Math.abs(augmentedUpper[position * size + position]) > rankTolerance * scaledColumnNorms[column]) {
       position += 1;
       continue;
     }
@@ -176,7 +182,7 @@ export function solveLeastSquares(design: Design, options: SolveOptions = {}, ca
   }
   const scaledResidualNorm = Math.abs(augmentedUpper[rank * size + rank]);
   const keptScales = Float64Array.from(kept, (column) => scales[column]);
-  const outcomeScale = outcomeSummary.scale;
+  const outcomeScale = scales[columnCount];
   const scaledEstimates = solveUpperTriangular(scaledUpper, rank, projectedOutcome);
   let estimates: Float64Array = Float64Array.from(scaledEstimates, (value, index) => (value * keptScales[index]) / outcomeScale);
   const scaledInverseUpper = invertUpperTriangular(scaledUpper, rank);
