@@ -1,13 +1,17 @@
 // Seeds the demo company (idempotent: every step creates only what is missing). Run by `npm start`
 // after the migrations; by hand: `npm run seed` (DATABASE_URL must point at a migrated database).
 import { getDatabase } from "@/db/client";
+import { seedDemoFit } from "./demo-fit";
 import { seedUsers } from "./users";
 
 type Step = { name: string; run: (db: ReturnType<typeof getDatabase>["db"]) => Promise<unknown> };
 
 // One entry per area, in dependency order; later areas (the demo spend history, an approved demo
 // fit, scenarios) add their step below the users.
-const steps: Step[] = [{ name: "workspaces, demo users and roles", run: seedUsers }];
+const steps: Step[] = [
+  { name: "workspaces, demo users and roles", run: seedUsers },
+  { name: "demo spend history, approved and draft demo fits", run: seedDemoFit },
+];
 
 async function main() {
   const { db, sql } = getDatabase();

@@ -28,6 +28,18 @@ export function describeAuditEvent(event: Pick<AuditEventDto, "action" | "detail
       return "created the workspace";
     case "workspace.settings_changed":
       return "changed the workspace settings";
+    case "fit.created":
+      return `built the fit “${str(d.name)}”`;
+    case "fit.refitted":
+      return `refitted the fit “${str(d.name)}”`;
+    case "fit.submitted":
+      return `sent the fit “${str(d.name)}” for review`;
+    case "fit.approved":
+      return `approved the fit “${str(d.name)}”`;
+    case "fit.changes_requested":
+      return `requested changes to the fit “${str(d.name)}”`;
+    case "fit.retired":
+      return `retired the fit “${str(d.name)}”`;
     default:
       return `${event.action.replace(/[._]/g, " ")}`;
   }

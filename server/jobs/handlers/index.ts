@@ -11,4 +11,6 @@ export type JobContext = {
 export type JobHandler = (context: JobContext) => Promise<Record<string, unknown>>;
 
 /** Every kind of background work and the function that does it; add a kind here and in queue.ts. */
-export const jobHandlers: Partial<Record<JobKind, () => Promise<JobHandler>>> = {};
+export const jobHandlers: Partial<Record<JobKind, () => Promise<JobHandler>>> = {
+  "fit.run": () => import("./fit-run").then((module) => module.default),
+};
