@@ -3,6 +3,7 @@ import type { Metadata } from "next";
 import { can, requirePageActor, roleDescriptions, roleLabels } from "@/server/authz";
 import { listAuditEventsByWorkspaceId } from "@/server/data/audit";
 import { listMembersByWorkspaceId } from "@/server/data/members";
+import { listApprovedFits, listScenariosByWorkspace } from "@/server/scenarios/store";
 import { Section, RoleBadge } from "@/ui/section";
 import { describeAuditEvent } from "@/ui/audit-event";
 
@@ -10,12 +11,15 @@ export const metadata: Metadata = { title: "Home" };
 
 export default async function HomePage() {
   const actor = await requirePageActor("workspace:read");
-  const [events, members] = await Promise.all([
+  const [events, members, approvedFits, scenarios] = await Promise.all([
     listAuditEventsByWorkspaceId({ workspaceId: actor.workspaceId, limit: 10 }),
     listMembersByWorkspaceId(actor.workspaceId),
+    can(actor, "fit:read") ? listApprovedFits(actor.workspaceId) : null,
+    can(actor, "scenario:read") ? listScenariosByWorkspace({ workspaceId: actor.workspaceId }) : null,
   ]);
   const firstName = (actor.name ?? actor.email).split(" ")[0];
   const when = new Intl.DateTimeFormat(actor.locale, { dateStyle: "medium", timeStyle: "short", timeZone: "UTC" });
+  const day = new Intl.DateTimeFormat(actor.locale, { dateStyle: "medium", timeZone: "UTC" });
 
   const nextSteps = [
     can(actor, "dataset:upload") && { href: "/datasets", text: "Upload a spend history and build a fit" },
@@ -71,15 +75,79 @@ export default async function HomePage() {
 
         <Section id="workspace" title="Workspace" description={`${members.length} member${members.length === 1 ? "" : "s"}`}>
           <ul className="flex flex-col divide-y divide-slate-100 text-sm">
-            {members.map((member) => (
+            {members.slice(0, 8).map((member) => (
               <li key={member.userId} className="flex flex-wrap items-center justify-between gap-2 py-1.5">
                 <span>{member.name ?? member.email}</span>
                 <span className="text-xs text-slate-600">{member.roles.map((role) => roleLabels[role]).join(" · ")}</span>
               </li>
             ))}
           </ul>
+          {members.length > 8 ? (
+            <p className="mt-2 text-sm text-slate-600">
+              and {members.length - 8} more
+              {can(actor, "workspace:admin") ? (
+                <>
+                  {" · "}
+                  <Link href="/settings#members" className="text-shallows underline-offset-2 hover:underline">
+                    all members
+                  </Link>
+                </>
+              ) : null}
+            </p>
+          ) : null}
         </Section>
       </div>
+
+      {approvedFits || scenarios ? (
+        <div className="grid gap-6 md:grid-cols-2">
+          {approvedFits ? (
+            <Section id="approved-fits" title="Approved fits" description="What planners can plan on, newest approval first.">
+              {approvedFits.length === 0 ? (
+                <p className="text-sm text-slate-700">
+                  No approved fits yet.{can(actor, "fit:create") ? " Build one from a spend history and send it for review." : ""}
+                </p>
+              ) : (
+                <ul className="flex flex-col divide-y divide-slate-100 text-sm">
+                  {approvedFits.slice(0, 5).map((fit) => (
+                    <li key={fit.id} className="flex flex-wrap justify-between gap-2 py-1.5">
+                      <Link href={`/fits/${fit.id}`} className="text-shallows underline-offset-2 hover:underline">
+                        {fit.name}
+                      </Link>
+                      {fit.approvedAt ? <span className="num text-slate-500">approved {day.format(new Date(fit.approvedAt))}</span> : null}
+                    </li>
+                  ))}
+                </ul>
+              )}
+            </Section>
+          ) : null}
+          {scenarios ? (
+            <Section id="scenarios" title="Scenarios" description="Budget plans on approved fits, newest first.">
+              {scenarios.length === 0 ? (
+                <p className="text-sm text-slate-700">
+                  No scenarios yet.{can(actor, "scenario:write") ? " Start one from an approved fit." : ""}
+                </p>
+              ) : (
+                <ul className="flex flex-col divide-y divide-slate-100 text-sm">
+                  {scenarios.slice(0, 5).map((scenario) => (
+                    <li key={scenario.id} className="flex flex-wrap justify-between gap-2 py-1.5">
+                      <span>
+                        <Link href={`/scenarios/${scenario.id}`} className="text-shallows underline-offset-2 hover:underline">
+                          {scenario.name}
+                        </Link>
+                        <span className="block text-xs text-slate-600">on {scenario.fitName}{scenario.ownerName ? ` · ${scenario.ownerName}` : ""}</span>
+                      </span>
+                      <span className="num text-slate-500">
+                        {scenario.latestVersion ? `v${scenario.latestVersion}` : "no version saved"}
+                        {scenario.latestSavedAt ? ` · ${day.format(new Date(scenario.latestSavedAt))}` : ""}
+                      </span>
+                    </li>
+                  ))}
+                </ul>
+              )}
+            </Section>
+          ) : null}
+        </div>
+      ) : null}
 
       <Section id="activity" title="Recent activity" description="The latest changes in this workspace, newest first.">
         {events.length === 0 ? (
