@@ -93,8 +93,9 @@ export async function assertPortsFree(ports: { name: string; port: string; varia
 /**
  * Starts the project-local cluster (when DATABASE_URL points at it; a server left running by a killed
  * earlier run is stopped first), creates DATABASE_URL's database if missing, migrates and seeds it.
+ * A failing seed throws, unless `onSeedError` takes it (the tests count it and go on).
  */
-export async function prepareDatabase(supervisor: Supervisor, stack: Stack): Promise<void> {
+export async function prepareDatabase(supervisor: Supervisor, stack: Stack, onSeedError?: (error: StepError) => void): Promise<void> {
   const local = localDatabase(stack.env);
   if (local) {
     const pg = { env: pgEnv(stack), console: "none" as const };
@@ -108,7 +109,12 @@ export async function prepareDatabase(supervisor: Supervisor, stack: Stack): Pro
   }
   await step(supervisor, { name: "migrate", command: NODE, args: [...TSX, "db/migrate.ts"], env: stack.env });
   if (existsSync("seed/index.ts")) {
-    await step(supervisor, { name: "seed", command: NODE, args: [...SERVER, ...TSX, "seed/index.ts"], env: stack.env });
+    try {
+      await step(supervisor, { name: "seed", command: NODE, args: [...SERVER, ...TSX, "seed/index.ts"], env: stack.env });
+    } catch (error) {
+      if (!onSeedError || supervisor.isStopping || !(error instanceof StepError)) throw error;
+      onSeedError(error);
+    }
   }
 }
 

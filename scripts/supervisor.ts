@@ -153,6 +153,8 @@ export class Supervisor {
 
   private spawn(spec: ProcessSpec, longRunning: boolean): Running {
     const log = createWriteStream(this.logFile(spec.name), { flags: "a" });
+    // A log that cannot be written (its folder removed, disk full) must not take the supervisor down.
+    log.on("error", (error) => process.stderr.write(`[${spec.name}] log ${this.logFile(spec.name)}: ${error.message}\n`));
     const commandLine = [spec.command, ...(spec.args ?? [])].join(" ");
     log.write(`--- ${new Date().toISOString()} ${commandLine}\n`);
     const child = spawn(spec.command, spec.args ?? [], {
@@ -176,13 +178,18 @@ export class Supervisor {
         if (settled) return;
         settled = true;
         entry.exit = info;
-        log.end(`--- ${new Date().toISOString()} exited (${describe(info)})\n`);
+        // Resolve once the log is complete on disk (callers read it, tests remove its folder).
+        const logged = new Promise<void>((done) => {
+          if (log.destroyed) return done();
+          log.once("close", () => done());
+          log.end(`--- ${new Date().toISOString()} exited (${describe(info)})\n`);
+        });
         this.options.onChange?.(this.pids());
         if (longRunning && !this.stopping && !this.firstUnexpected) {
           this.firstUnexpected = info;
           for (const notify of this.unexpected.splice(0)) notify(info);
         }
-        resolve(info);
+        void logged.then(() => resolve(info));
       };
       child.on("error", (error) => {
         out(`could not start ${commandLine}: ${error.message}`);

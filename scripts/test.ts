@@ -187,7 +187,8 @@ async function main(): Promise<number> {
           },
         )
       : Promise.resolve(false);
-    const [built] = await Promise.all([build, prepareDatabase(supervisor, stack)]);
+    const seeded = prepareDatabase(supervisor, stack, (error) => tally.fail(`${error.message} (tests go on with the unseeded database)`));
+    const [built] = await Promise.all([build, seeded]);
 
     if (options.unit) {
       const code = await supervisor.run({
