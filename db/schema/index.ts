@@ -4,5 +4,6 @@ export * from "./workspaces";
 export * from "./jobs";
 export * from "./mail";
 export * from "./datasets";
+export * from "./dataset-uploads";
 export * from "./fits";
 export * from "./scenarios";
