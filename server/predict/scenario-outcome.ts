@@ -227,7 +227,7 @@ function rangeWarnings(shape: PlanShape, plan: ScenarioPlan, reports: Extrapolat
         const most = direction === "above" ? "the most it ever had" : "the least it ever had";
         message =
           `${channel.label} at ${wholeMoney(excursion.value * plan.horizon, money)} over ${periodsWord(plan.horizon, period)} ` +
-          `(${wholeMoney(excursion.value, money)} per ${period}) is ${percentOf(excursion.distance, bound)}${direction} ${most} ` +
+          `(${wholeMoney(excursion.value, money)} per ${period}) is ${excursion.value === 0 ? "" : percentOf(excursion.distance, bound)}${direction} ${most} ` +
           `(${wholeMoney(bound, money)} per ${period}): ${wholeMoney(excursion.distance, money)} per ${period}, ` +
           `${wholeMoney(beyondPerHorizon, money)} over the horizon.`;
       } else {
