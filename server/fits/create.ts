@@ -25,7 +25,7 @@ export async function createOrRefitFit(actor: Actor, input: FitInput, fitId: str
     assertRefittable(row, actor.userId);
   }
   const prepared = await prepareFit(actor.workspaceId, input);
-  if (prepared.dataset.rowCount > inlineFitRowLimit) {
+  if (prepared.dataset.rowCount > inlineFitRowLimit()) {
     const jobInput: FitJobInput = { fitInput: input, userId: actor.userId, fitId };
     const job = await enqueueJob({ workspaceId: actor.workspaceId, userId: actor.userId, kind: "fit.run", input: jobInput as unknown as Record<string, unknown> });
     return { kind: "queued", job };

@@ -12,9 +12,14 @@ import { frozenConflict } from "./transitions";
 
 /**
  * Datasets up to this many rows are fitted inside the request (well under a second); larger ones
- * go to the worker so the web server keeps answering during a long fit.
+ * go to the worker so the web server keeps answering during a long fit. FIT_INLINE_ROW_LIMIT
+ * overrides it (tests use a small value to exercise the job path).
  */
-export const inlineFitRowLimit = 50_000;
+export function inlineFitRowLimit(): number {
+  const raw = process.env.FIT_INLINE_ROW_LIMIT?.trim();
+  const configured = raw ? Number(raw) : NaN;
+  return Number.isInteger(configured) && configured >= 0 ? configured : 50_000;
+}
 
 /** What a fit job carries (job_runs.input): everything needed to redo the request without a session. */
 export type FitJobInput = { fitInput: FitInput; userId: string; fitId: string | null };
