@@ -406,8 +406,241 @@ const jobs: Section = {
   },
 };
 
+// ---------------------------------------------------------------------------------------------
+// Scenarios and predictions (issue 5)
+
+const amounts = (description: string) => ({ type: "object", additionalProperties: { type: "number" }, description });
+const interval = (description: string) => ({
+  type: "object",
+  description,
+  required: ["mean", "confidence", "prediction"],
+  properties: {
+    mean: { type: "number" },
+    confidence: { type: "array", items: { type: "number" }, minItems: 2, maxItems: 2, description: "[low, high] for the expected value." },
+    prediction: { type: "array", items: { type: "number" }, minItems: 2, maxItems: 2, description: "[low, high] for the realised value." },
+  },
+});
+const planProperties = {
+  allocation: amounts("Spend per channel for the whole horizon, in the workspace currency (cents at most). Every channel of the fit, 0 if none."),
+  controls: amounts("Controls over the horizon: for an on/off control the number of periods it is on (e.g. 4 promotion weeks of 13), otherwise its value per period."),
+  horizon: { type: "integer", minimum: 1, maximum: 520, description: "Periods (e.g. weeks) the plan covers; each channel's amount is spread evenly (amount ÷ horizon per period)." },
+};
+const versionNumberParameter = { name: "n", in: "path", required: true, description: "Version number (1, 2, …)", schema: { type: "integer", minimum: 1 } };
+
+const scenarios: Section = {
+  tag: {
+    name: "Scenarios",
+    description:
+      "Budget plans on approved fits, each save an immutable numbered version, and the predictions they read. Planners write; planners, finance, reviewers and admins read. Every prediction is an association from past data, and the intervals assume the fitted model still describes the market.",
+  },
+  schemas: {
+    Plan: { type: "object", required: ["allocation", "horizon"], properties: planProperties },
+    PredictRequest: {
+      type: "object",
+      required: ["allocation", "horizon"],
+      properties: {
+        ...planProperties,
+        level: { type: "number", exclusiveMinimum: 0.5, exclusiveMaximum: 1, description: "Confidence level of both intervals; default the fit's (0.95)." },
+        compareTo: { ...ref("Plan"), description: "Another plan (e.g. the starting one): the answer then has `difference`." },
+      },
+      example: { allocation: { search_eur: 260000, social_eur: 130000, video_eur: 143000, display_eur: 91000, podcast_eur: 65000, email_eur: 31200 }, controls: { promo_week: 2 }, horizon: 13, level: 0.95 },
+    },
+    ScenarioWarning: {
+      type: "object",
+      description:
+        "`outside-range` (Beyond observed range): a channel or control outside what the fit saw, with the distance per period and over the horizon. `hidden-extrapolation` (Unseen combination): every column inside its range but the mix never seen (leverage above the largest of the history). Either way the model has no data there; treat the number as a guess. Warnings never block a save.",
+      required: ["kind", "message"],
+      properties: {
+        kind: { type: "string", enum: ["outside-range", "hidden-extrapolation"] },
+        message: { type: "string" },
+        column: { type: "string" },
+        label: { type: "string" },
+        role: { type: "string", enum: ["channel", "control"] },
+        direction: { type: "string", enum: ["above", "below"] },
+        value: { type: "number", description: "Per period." },
+        minimum: { type: "number" },
+        maximum: { type: "number" },
+        beyondPerPeriod: { type: "number" },
+        beyondPerHorizon: { type: "number" },
+        leverage: { type: "number" },
+        maxTrainingLeverage: { type: "number" },
+        terms: { type: "array", items: { type: "string" } },
+      },
+    },
+    Prediction: {
+      type: "object",
+      required: ["perPeriod", "horizonTotal", "leverage", "maxTrainingLeverage", "warnings", "contributions"],
+      properties: {
+        fitId: { type: "string", format: "uuid" },
+        checksum: { type: "string", description: "The fit record the numbers come from." },
+        level: { type: "number" },
+        horizon: { type: "integer" },
+        periodNoun: { type: "string", example: "week" },
+        perPeriod: interval("An average period: the total ÷ horizon; its prediction interval is for one new period at that plan."),
+        horizonTotal: interval("The total over the horizon. Prediction variance H·s² + aᵀVa (a = sum of the periods' design rows), not one period's interval times H."),
+        leverage: { type: "number", description: "Largest h₀ = x₀ᵀ(XᵀX)⁻¹x₀ among the plan's periods." },
+        maxTrainingLeverage: { type: "number", description: "Largest leverage in the history: above it the plan is an unseen combination." },
+        warnings: { type: "array", items: ref("ScenarioWarning") },
+        contributions: {
+          type: "array",
+          description: "Coefficient × the term's value over the horizon (an association, not the effect of changing one channel alone).",
+          items: { type: "object", properties: { term: { type: "string" }, label: { type: "string" }, value: { type: "number" }, perPeriod: { type: "number" } } },
+        },
+        difference: {
+          type: "object",
+          description: "With `compareTo`: this plan's expected total minus the other's, with its own confidence interval from the covariance (dᵀVd).",
+          properties: { mean: { type: "number" }, confidence: { type: "array", items: { type: "number" } }, baselineTotal: { type: "number" } },
+        },
+      },
+    },
+    Scenario: {
+      type: "object",
+      properties: {
+        id: { type: "string", format: "uuid" },
+        name: { type: "string" },
+        fitId: { type: "string", format: "uuid" },
+        fitName: { type: "string" },
+        fitStatus: { type: "string" },
+        ownerName: { type: ["string", "null"] },
+        horizon: { type: "integer" },
+        latestVersion: { type: ["integer", "null"] },
+        latestSavedAt: { type: ["string", "null"], format: "date-time" },
+        baseline: { type: "object", description: "The starting plan (what `difference` is measured against): allocation, controls, horizon, source, description, total." },
+        versions: { type: "array", items: { type: "object", description: "number, mode, total, horizon, note, authorName, createdAt, basedOn, restoredFrom, horizonTotal, warningKinds" } },
+      },
+    },
+    SaveVersionRequest: {
+      type: "object",
+      required: ["baseVersion"],
+      properties: {
+        baseVersion: { type: "integer", minimum: 0, description: "The version you started from (0 before the first save). If a later version exists: 409." },
+        note: { type: "string", maxLength: 2000 },
+        restoreFrom: { type: "integer", minimum: 1, description: "Save a copy of this older version as the new one (the plan fields are then ignored)." },
+        mode: { type: "string", enum: ["fixed", "growing"] },
+        ...planProperties,
+        total: { type: "number", description: "Fixed mode: the amounts must add up to it (±0.01)." },
+        ceiling: { type: ["number", "null"], description: "Growing mode: the total may rise up to it." },
+        settings: { type: "object", description: "Per channel `{ locked, floorCents, ceilingCents }`.", additionalProperties: { type: "object" } },
+      },
+    },
+    ScenarioVersion: {
+      type: "object",
+      description: "Immutable. `prediction` is the server's, computed at save time against the scenario's starting plan.",
+      properties: {
+        scenarioId: { type: "string", format: "uuid" },
+        number: { type: "integer" },
+        mode: { type: "string", enum: ["fixed", "growing"] },
+        ...planProperties,
+        total: { type: "number" },
+        ceiling: { type: ["number", "null"] },
+        prediction: ref("Prediction"),
+        warnings: { type: "array", items: ref("ScenarioWarning") },
+        fitChecksum: { type: "string" },
+        note: { type: "string" },
+        authorName: { type: ["string", "null"] },
+        createdAt: { type: "string", format: "date-time" },
+        basedOn: { type: ["integer", "null"] },
+        restoredFrom: { type: ["integer", "null"] },
+      },
+    },
+  },
+  paths: {
+    "/api/fits/{id}/predict": {
+      post: {
+        tags: ["Scenarios"],
+        summary: "Predict a plan's outcome on an approved fit",
+        description: "Roles with fit:predict (planners, analysts, reviewers). No database round trip once the fit is warm.",
+        parameters: [idParameter("fit")],
+        requestBody: { required: true, ...jsonBody(ref("PredictRequest")) },
+        responses: {
+          "200": jsonBody(ref("Prediction"), "Intervals, warnings and contributions."),
+          "404": error("No such fit in this workspace."),
+          "409": error("The fit is not approved (or was retired)."),
+          "422": error("Unknown or missing channel, negative amount, bad control or horizon."),
+          ...commonErrors,
+        },
+      },
+    },
+    "/api/scenarios": {
+      get: {
+        tags: ["Scenarios"],
+        summary: "List scenarios",
+        parameters: [{ name: "fitId", in: "query", required: false, description: "Only scenarios on this fit", schema: { type: "string", format: "uuid" } }],
+        responses: { "200": jsonBody({ type: "object", properties: { scenarios: { type: "array", items: ref("Scenario") } } }, "Newest first."), ...commonErrors },
+      },
+      post: {
+        tags: ["Scenarios"],
+        summary: "Start a scenario on an approved fit (planners)",
+        description:
+          "Default horizon: a quarter of a year in the fit's periods (13 weeks). Default starting allocation: the spend of the most recent horizon in the history; or `allocation`, or `startFrom` a saved version. No version yet: the first save is version 1.",
+        requestBody: {
+          required: true,
+          ...jsonBody({
+            type: "object",
+            required: ["fitId", "name"],
+            properties: {
+              fitId: { type: "string", format: "uuid" },
+              name: { type: "string", maxLength: 200 },
+              horizon: planProperties.horizon,
+              controls: planProperties.controls,
+              allocation: planProperties.allocation,
+              startFrom: { type: "object", properties: { scenarioId: { type: "string", format: "uuid" }, version: { type: "integer" } } },
+            },
+          }),
+        },
+        responses: {
+          "201": jsonBody(ref("Scenario"), "The scenario with its starting plan."),
+          "404": error("No such fit in this workspace."),
+          "409": error("The fit is not approved."),
+          "422": error("Invalid name, horizon, controls or amounts."),
+          ...commonErrors,
+        },
+      },
+    },
+    "/api/scenarios/{id}": {
+      get: {
+        tags: ["Scenarios"],
+        summary: "A scenario with its starting plan and versions",
+        parameters: [idParameter("scenario")],
+        responses: { "200": jsonBody(ref("Scenario")), "404": error("No such scenario in this workspace."), ...commonErrors },
+      },
+    },
+    "/api/scenarios/{id}/versions": {
+      get: {
+        tags: ["Scenarios"],
+        summary: "The scenario's versions, oldest first",
+        parameters: [idParameter("scenario")],
+        responses: { "200": jsonBody({ type: "object", properties: { versions: { type: "array", items: { type: "object" } } } }), "404": error("No such scenario."), ...commonErrors },
+      },
+      post: {
+        tags: ["Scenarios"],
+        summary: "Save version baseVersion + 1 (planners)",
+        description:
+          "The server checks the plan, recomputes the prediction (client numbers are never stored) and inserts the next number in one transaction; of two saves on the same base exactly one succeeds. Warnings never block a save; they are stored with the version.",
+        parameters: [idParameter("scenario")],
+        requestBody: { required: true, ...jsonBody(ref("SaveVersionRequest")) },
+        responses: {
+          "201": jsonBody(ref("ScenarioVersion"), "The saved version."),
+          "404": error("No such scenario in this workspace."),
+          "409": error("A version after baseVersion exists (`details[0]` has latestVersion, savedBy, savedAt), or the fit is no longer approved. Nothing is stored."),
+          "422": error("Amounts that do not add up to the fixed total (±0.01), negative or fractional-cent amounts, unknown channels, a total above the ceiling, a base version that does not exist. Nothing is stored."),
+          ...commonErrors,
+        },
+      },
+    },
+    "/api/scenarios/{id}/versions/{n}": {
+      get: {
+        tags: ["Scenarios"],
+        summary: "One version with its plan, prediction and warnings",
+        parameters: [idParameter("scenario"), versionNumberParameter],
+        responses: { "200": jsonBody(ref("ScenarioVersion")), "404": error("No such scenario or version."), ...commonErrors },
+      },
+    },
+  },
+};
+
 /** Areas in the order the documentation lists them; add yours here. */
-const sections: Section[] = [fits, jobs];
+const sections: Section[] = [fits, scenarios, jobs];
 
 export const openApiDocument = {
   openapi: "3.1.0",
