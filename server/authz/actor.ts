@@ -40,12 +40,13 @@ function bearerToken(authorization: string | null): string | null | undefined {
 }
 
 async function actorFromToken(token: string | null): Promise<Actor> {
-  const refused = new AppError("unauthenticated:token", "The API token is not valid: it is unknown, revoked or expired.");
-  if (!token || !looksLikeApiToken(token)) throw refused;
+  // Built only when refusing: an Error captures a stack trace, too costly for every accepted call.
+  const refused = () => new AppError("unauthenticated:token", "The API token is not valid: it is unknown, revoked or expired.");
+  if (!token || !looksLikeApiToken(token)) throw refused();
   const tokenHash = hashApiToken(token);
   const identity = await cached(`token:${tokenHash}`, () => findApiTokenIdentityByHash(tokenHash));
-  if (!identity) throw refused;
-  if (identity.expiresAt && identity.expiresAt.getTime() <= Date.now()) throw refused;
+  if (!identity) throw refused();
+  if (identity.expiresAt && identity.expiresAt.getTime() <= Date.now()) throw refused();
   if (!identity.lastUsedAt || Date.now() - identity.lastUsedAt.getTime() > TOUCH_EVERY_MS) {
     identity.lastUsedAt = new Date(); // the cached copy, so this process writes at most once a minute
     touchApiToken(identity.tokenId).catch((error: unknown) => {
