@@ -161,25 +161,22 @@ export function planPeriods(shape: PlanShape, plan: ScenarioPlan): { point: Name
   for (const control of shape.controls) if (control.kind === "level") base[control.name] = plan.controls[control.name] ?? 0;
   const counts = shape.controls.filter((control) => control.kind === "count");
   if (counts.length === 0) return [{ point: base, periods: plan.horizon }];
-  // Periods t = 0 … H−1; a count control with value k is on where t < k. Group equal periods.
-  const groups = new Map<string, { point: NamedPoint; periods: number }>();
+  // Periods t = 0 … H−1; a count control with value k is on where t < k. Between two consecutive
+  // thresholds every period is the same point (and two segments always differ in some control).
   const thresholds = [...new Set([0, plan.horizon, ...counts.map((control) => Math.min(plan.horizon, plan.controls[control.name] ?? 0))])].sort((a, b) => a - b);
+  const groups: { point: NamedPoint; periods: number }[] = [];
   for (let index = 0; index + 1 < thresholds.length; index++) {
     const start = thresholds[index];
-    const periods = thresholds[index + 1] - start;
-    if (periods <= 0) continue;
     const point: Record<string, number> = { ...base };
     for (const control of counts) point[control.name] = start < (plan.controls[control.name] ?? 0) ? 1 : 0;
-    const key = counts.map((control) => point[control.name]).join(",");
-    const group = groups.get(key);
-    if (group) group.periods += periods;
-    else groups.set(key, { point, periods });
+    groups.push({ point, periods: thresholds[index + 1] - start });
   }
-  return [...groups.values()];
+  return groups;
 }
 
-/** The engine's plan: one point per period (H points, a few distinct). */
+/** The engine's plan: the repeated point, or one point per period (H points, a few distinct). */
 function enginePlan(periods: { point: NamedPoint; periods: number }[]): Plan {
+  if (periods.length === 1) return { point: periods[0].point, periods: periods[0].periods };
   const points: NamedPoint[] = [];
   for (const group of periods) for (let index = 0; index < group.periods; index++) points.push(group.point);
   return { points };
@@ -259,6 +256,7 @@ function formatNumber(value: number): string {
 }
 
 function combinationWarning(shape: PlanShape, reports: ExtrapolationReport[]): ScenarioWarning | null {
+  if (!reports.some((report) => report.hiddenExtrapolation || report.terms.length > 0)) return null;
   const hidden = reports.filter((report) => report.hiddenExtrapolation);
   // A term out of range while each of its columns is inside (an interaction, a power) is a
   // combination the history never had, too.
@@ -285,21 +283,31 @@ function combinationWarning(shape: PlanShape, reports: ExtrapolationReport[]): S
   return { kind: "hidden-extrapolation", leverage, maxTrainingLeverage, terms, message: parts.join("") };
 }
 
+/** Display labels of the record's terms, per shape (computed once). */
+const termLabelCache = new WeakMap<PlanShape, Map<string, string>>();
+
+function termLabel(shape: PlanShape, term: string): string {
+  let labels = termLabelCache.get(shape);
+  if (!labels) termLabelCache.set(shape, (labels = new Map()));
+  let label = labels.get(term);
+  if (label === undefined) {
+    const columns = [...shape.channels, ...shape.controls];
+    if (term === "(Intercept)") label = "Baseline (intercept)";
+    else label = columns.find((candidate) => candidate.name === term)?.label ?? term.replace(/[a-z0-9_]+/gi, (name) => columns.find((c) => c.name === name)?.label ?? name);
+    labels.set(term, label);
+  }
+  return label;
+}
+
 function contributions(record: FitRecord, shape: PlanShape, periods: { point: NamedPoint; periods: number }[], horizon: number): Contribution[] {
   const totals = new Float64Array(record.termNames.length);
   for (const group of periods) {
     const row = evaluateScenarioPoint(record.specification, group.point);
     for (let index = 0; index < row.length; index++) totals[index] += row[index] * group.periods;
   }
-  const labelOf = (term: string) => {
-    if (term === "(Intercept)") return "Baseline (intercept)";
-    const column = [...shape.channels, ...shape.controls].find((candidate) => candidate.name === term);
-    if (column) return column.label;
-    return term.replace(/[a-z0-9_]+/gi, (name) => [...shape.channels, ...shape.controls].find((c) => c.name === name)?.label ?? name);
-  };
   return record.estimableTerms.map((term, position) => {
     const value = record.coefficients[position] * totals[record.termNames.indexOf(term)];
-    return { term, label: labelOf(term), value, perPeriod: value / horizon };
+    return { term, label: termLabel(shape, term), value, perPeriod: value / horizon };
   });
 }
 
