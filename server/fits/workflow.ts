@@ -7,6 +7,7 @@ import { notifyFitTransition, transitionOf } from "./mail";
 import { getFitById } from "./store";
 import { applyFitTransition, fitTransitionPlans, frozenConflict, type FitAction } from "./transitions";
 import type { FitDto, FitStatus } from "./types";
+import { invalidateFitCache } from "@/server/predict/fit-cache";
 
 export { availableFitActions, type FitAction } from "./transitions";
 
@@ -35,6 +36,8 @@ export async function transitionFit(input: { actor: Actor; fitId: string; action
   } catch (error) {
     throw frozenConflict(error) ?? error;
   }
+  // Predictions in this process see the new status at once (other processes within HEAD_TTL_MS).
+  invalidateFitCache(input.fitId);
   await notifyFitTransition({
     workspaceId: actor.workspaceId,
     workspaceName: actor.workspaceName,

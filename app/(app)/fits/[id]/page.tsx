@@ -62,6 +62,12 @@ export default async function FitReportPage({ params }: Props) {
             </p>
           ) : null}
         </div>
+        {fit.status === "approved" && can(actor, "scenario:write") ? (
+          // Planners plan on approved fits (issue 5).
+          <Link href={`/scenarios/new?fitId=${fit.id}`} className={buttonClass("primary", "ml-auto")}>
+            Start a scenario
+          </Link>
+        ) : null}
         {can(actor, "fit:create") ? (
           <Link href={`/fits/new?from=${fit.id}`} className={buttonClass("secondary")}>
             {fit.authorId === actor.userId && (fit.status === "draft" || fit.status === "changes_requested") ? "Change and refit" : "Build a new fit from this one"}
