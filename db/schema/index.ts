@@ -7,3 +7,4 @@ export * from "./datasets";
 export * from "./dataset-uploads";
 export * from "./fits";
 export * from "./scenarios";
+export * from "./reviews";
