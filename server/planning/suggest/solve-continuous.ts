@@ -56,7 +56,7 @@ type Attempt = Omit<ContinuousSolution, "hullStatus">;
 /** Solves the problem. Cost: see each method's file. */
 export function solveContinuous(problem: ContinuousProblem): ContinuousSolution {
   const { hullTarget } = problem;
-  const free = exactWithoutHull(problem);
+  const free = solveWithoutHull(problem);
   if (hullTarget === null) return { ...(free ?? localSearch(problem, null) ?? fallback(problem)), hullStatus: "off" };
   if (free && planLeverage(problem.model, free.amountsCents) <= hullTarget) return { ...free, hullStatus: "kept" };
   const kept = problem.shape.designConvex ? designBarrier(problem, hullTarget) : localSearch(problem, hullTarget);
@@ -65,8 +65,8 @@ export function solveContinuous(problem: ContinuousProblem): ContinuousSolution 
   return { ...(free ?? localSearch(problem, null) ?? fallback(problem)), hullStatus: "unreachable" };
 }
 
-/** The exact hull-free methods, or null when the shape needs the local method. */
-function exactWithoutHull(problem: ContinuousProblem): Attempt | null {
+/** The hull-free solve: an exact method when the shape has one, else null (the caller runs the local method). */
+function solveWithoutHull(problem: ContinuousProblem): Attempt | null {
   const { model, shape, free, budget } = problem;
   if (shape.affine) {
     // F is linear: its gradient anywhere is the programme's returns.

@@ -79,9 +79,9 @@ describe("hull kept: the suggestion is inside the hull and no feasible plan beat
     expect(suggestion.hull.status).toBe("kept");
     expect(mine.leverage).toBeLessThanOrEqual(instance.record.maxTrainingLeverage * (1 + leverageMargin));
     if (suggestion.hull.binding) bindingCount += 1;
-    // Grid steps per free dimension: 1 → 4000, 2 → 300, 3 → 60 (a few hundred thousand plans at most).
+    // Grid steps per free dimension: 1 → 4000, 2 → 200, 3 → 40 (tens of thousands of plans at most).
     const dimensions = channelCount - (mode === "fixed" ? 1 : 0);
-    const best = bruteForce(instance.record, state, [0, 4000, 300, 60][dimensions]);
+    const best = bruteForce(instance.record, state, [0, 4000, 200, 40][dimensions]);
     expect(best).not.toBeNull();
     if (!best) return;
     expect(mine.total).toBeGreaterThanOrEqual(best.total - optimalityTolerance * Math.abs(best.total));
