@@ -237,6 +237,8 @@ export type CreateDatasetInput = {
   /** The file size when known (Content-Length of the file part), for progress. */
   totalBytes?: number | null;
   onProgress?: (progress: UploadProgress) => void;
+  /** Runs in the upload's transaction right before COMMIT (e.g. the audit entry); throwing rolls it all back. */
+  beforeCommit?: (tx: postgres.TransactionSql, datasetId: string) => Promise<void>;
 };
 
 export type CreateDatasetResult =
@@ -395,6 +397,7 @@ export async function createDataset(input: CreateDatasetInput): Promise<CreateDa
         message: `The same file (identical bytes) was uploaded before as “${earlier[0].name}”.`,
       });
     }
+    if (input.beforeCommit) await input.beforeCommit(open.tx, datasetId);
     await open.commit();
     transaction = null;
   } catch (error) {
@@ -691,6 +694,8 @@ export type AssignRolesInput = {
   workspaceId: string;
   datasetId: string;
   userId: string | null;
+  /** Runs in the transaction that records the roles, before COMMIT (e.g. the audit entry). */
+  beforeCommit?: (tx: postgres.TransactionSql, datasetId: string) => Promise<void>;
 } & AssignRolesOptions;
 
 /**
@@ -728,6 +733,7 @@ export async function assignDatasetRoles(
         min_rows = ${minRowsInput ?? dataset.min_rows}, dropped_row_count = ${check.droppedRows.length},
         roles_assigned_by = ${input.userId}, roles_assigned_at = now()
       where id = ${dataset.id}`;
+    if (input.beforeCommit) await input.beforeCommit(tx, dataset.id);
     return { ok: true as const, report: problems.report() };
   });
   if (!outcome) return null;

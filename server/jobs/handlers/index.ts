@@ -12,5 +12,6 @@ export type JobHandler = (context: JobContext) => Promise<Record<string, unknown
 
 /** Every kind of background work and the function that does it; add a kind here and in queue.ts. */
 export const jobHandlers: Partial<Record<JobKind, () => Promise<JobHandler>>> = {
+  "dataset.ingest": () => import("./dataset-ingest").then((module) => module.default),
   "fit.run": () => import("./fit-run").then((module) => module.default),
 };

@@ -1,0 +1,1 @@
+export { assignRolesSchema as assignRolesRequestSchema } from "@/server/datasets/roles";

@@ -1,0 +1,225 @@
+// Large uploads: POST /api/datasets streams the body into PostgreSQL staging and answers 202 with a
+// dataset.ingest job; the job (run here as the worker runs it, at the same time as the upload arrives)
+// parses, checks and stores the dataset, reporting progress. A bad file fails the job with row and
+// column and stores nothing; an aborted or stalled upload stores nothing either; staging is emptied.
+import { afterAll, beforeAll, describe, expect, it } from "vitest";
+import { GET as getJob } from "@/app/api/jobs/[id]/route";
+import { GET as getDataset } from "@/app/api/datasets/[id]/route";
+import { POST as upload } from "@/app/api/datasets/route";
+import { getDatabase } from "@/db/client";
+import { ingestStagedUpload } from "@/server/datasets/ingest";
+import { beginStagedUpload, getStagedUpload, readStagedUpload, stageUploadBody, StagedUploadAborted } from "@/server/datasets/staging";
+import type { RoleAssignment } from "@/server/datasets/roles";
+import { getQueue } from "@/server/jobs/queue";
+import { apiRequest, makeTeam, routeContext, runIngestJob, streamingRequest, uploadFootprint } from "./support";
+
+let team: Awaited<ReturnType<typeof makeTeam<{ analyst: ["analyst"]; reviewer: ["reviewer"] }>>>;
+
+beforeAll(async () => {
+  team = await makeTeam({ analyst: ["analyst"], reviewer: ["reviewer"] });
+});
+
+afterAll(async () => {
+  await (await getQueue()).stop({ graceful: false, wait: true }).catch(() => {});
+});
+
+const HEADER = "date,sales,tv,radio,search,social,display,video,print,ooh,price,temperature\n";
+
+/** `rows` generated rows (about 95 bytes each); `edit` may replace a line (1-based data row). */
+function bigCsv(rows: number, edit: (row: number, line: string) => string = (_r, line) => line): Buffer {
+  const parts: string[] = [HEADER];
+  const day0 = Date.UTC(1990, 0, 1);
+  for (let i = 0; i < rows; i++) {
+    const date = new Date(day0 + i * 86_400_000).toISOString().slice(0, 10);
+    const spends = Array.from({ length: 8 }, (_, s) => ((i * (37 + s * 11)) % 9973) + s * 10 + 0.25);
+    const sales = 5000 + spends.reduce((sum, x, s) => sum + x * (0.2 + s / 20), 0) + (i % 17);
+    const line = `${date},${sales.toFixed(2)},${spends.map((x) => x.toFixed(2)).join(",")},${(8 + (i % 9) / 3).toFixed(3)},${(-10 + (i % 41)).toFixed(1)}\n`;
+    parts.push(edit(i + 1, line));
+  }
+  return Buffer.from(parts.join(""));
+}
+
+const roles: RoleAssignment = {
+  date: { role: "period" },
+  sales: { role: "outcome", unit: "EUR" },
+  ...Object.fromEntries(["tv", "radio", "search", "social", "display", "video", "print", "ooh"].map((c) => [c, { role: "spend", unit: "EUR" }])),
+  price: { role: "control", unit: "EUR" },
+  temperature: { role: "control", unit: "°C" },
+};
+
+/** Yields `bytes` in pieces of `size` with a pause every `every` pieces (a client on a real network). */
+async function* slowly(bytes: Buffer, size = 64 * 1024, every = 8, pauseMs = 5, failAfter?: number): AsyncGenerator<Uint8Array> {
+  for (let offset = 0, n = 0; offset < bytes.length; offset += size, n++) {
+    if (failAfter !== undefined && offset >= failAfter) throw new Error("socket hang up");
+    yield new Uint8Array(bytes.subarray(offset, offset + size));
+    if (n % every === 0) await new Promise((resolve) => setTimeout(resolve, pauseMs));
+  }
+}
+
+/** The newest dataset.ingest run of the workspace, once the route has queued it. */
+async function waitForJob(workspaceId: string, after: Date): Promise<string> {
+  const { sql } = getDatabase();
+  for (let i = 0; i < 400; i++) {
+    const [row] = await sql<{ id: string }[]>`
+      select id from job_runs where workspace_id = ${workspaceId} and kind = 'dataset.ingest' and created_at >= ${after.toISOString()}
+      order by created_at desc limit 1`;
+    if (row) return row.id;
+    await new Promise((resolve) => setTimeout(resolve, 25));
+  }
+  throw new Error("the route queued no job");
+}
+
+async function stagedChunks(): Promise<number> {
+  const [row] = await getDatabase().sql<{ n: number }[]>`select count(*)::int as n from dataset_upload_chunks`;
+  return row.n;
+}
+
+describe("a large upload through the route and the dataset.ingest job", () => {
+  it("is staged while the job checks and stores it in parallel, with progress; 202 then the job's result", async () => {
+    const file = bigCsv(70_000);
+    expect(file.length).toBeGreaterThan(5 * 1024 * 1024); // over the inline limit
+    const before = await uploadFootprint(team.workspace.id);
+    const started = new Date(Date.now() - 1000);
+    const query = `filename=big.csv&name=Big%20history&options=${encodeURIComponent(JSON.stringify({ roles }))}`;
+    const responding = upload(
+      streamingRequest(team.tokens.analyst, slowly(file), { "content-type": "text/csv", "content-length": String(file.length) }, query),
+      routeContext(),
+    );
+    const jobId = await waitForJob(team.workspace.id, started);
+    // the worker starts on it while the file is still arriving
+    const ingesting = runIngestJob(jobId);
+    const response = await responding;
+    const body = await response.json();
+    expect(response.status, JSON.stringify(body)).toBe(202);
+    expect(body).toMatchObject({ job: { id: jobId, kind: "dataset.ingest", links: { self: `/api/jobs/${jobId}` } }, upload: { receivedBytes: file.length } });
+    expect(response.headers.get("location")).toBe(`/api/jobs/${jobId}`);
+
+    const outcome = await ingesting;
+    expect(outcome.ok, JSON.stringify(outcome)).toBe(true);
+    if (!outcome.ok) return;
+    expect(outcome.result).toMatchObject({ rowCount: 70_000, columnCount: 12, status: "ready", name: "Big history" });
+    // progress: "Checking rows" in bytes of the declared size, growing, then "Stored"
+    const checking = outcome.progress.filter((p) => p.phase === "Checking rows" && p.done > 0);
+    expect(checking.length).toBeGreaterThan(2);
+    expect(checking.every((p) => p.total === file.length)).toBe(true);
+    expect(checking.map((p) => p.done)).toEqual([...checking.map((p) => p.done)].sort((a, b) => a - b));
+    expect(checking.at(-1)!.message).toMatch(/rows checked$/);
+    expect(outcome.progress.at(-1)).toMatchObject({ phase: "Stored", done: file.length, total: file.length, message: "70,000 rows stored" });
+
+    const job = await (await getJob(apiRequest(`/api/jobs/${jobId}`, { token: team.tokens.analyst }), routeContext({ id: jobId }))).json();
+    expect(job).toMatchObject({ status: "succeeded", result: { datasetId: expect.any(String), rowCount: 70_000 } });
+    const datasetId = job.result.datasetId as string;
+    const dataset = await (await getDataset(apiRequest(`/api/datasets/${datasetId}`, { token: team.tokens.reviewer }), routeContext({ id: datasetId }))).json();
+    expect(dataset).toMatchObject({ rowCount: 70_000, byteSize: file.length, originalFilename: "big.csv", uploadedByName: "analyst" });
+    expect(dataset.columns.find((c: { name: string }) => c.name === "temperature")).toMatchObject({ role: "control", unit: "°C", min: -10, max: 30 });
+
+    const after = await uploadFootprint(team.workspace.id);
+    expect(after).toMatchObject({ datasets: before.datasets + 1, rows: before.rows + 70_000, uploads: 0, chunks: 0, audit: before.audit + 1 });
+    const [audit] = await getDatabase().sql<{ details: Record<string, unknown> }[]>`
+      select details from audit_log where object_type = 'dataset' and object_id = ${datasetId}`;
+    expect(audit.details).toMatchObject({ via: "background", rows: 70_000 });
+  });
+
+  it("fails the job with every problem's row and column when the file is bad, and stores nothing", async () => {
+    const file = bigCsv(60_000, (row, line) => {
+      if (row === 41_234) return line.replace(/^([^,]*,[^,]*,)[^,]*/, "$1lots"); // tv is not a number
+      if (row === 55_000) return line.replace(/^([^,]*,[^,]*,[^,]*,)[^,]*/, "$1-120.5"); // negative radio spend
+      return line;
+    });
+    const before = await uploadFootprint(team.workspace.id);
+    const started = new Date(Date.now() - 1000);
+    const query = `filename=bad.csv&options=${encodeURIComponent(JSON.stringify({ roles }))}`;
+    const responding = upload(
+      streamingRequest(team.tokens.analyst, slowly(file), { "content-type": "text/csv", "content-length": String(file.length) }, query),
+      routeContext(),
+    );
+    const jobId = await waitForJob(team.workspace.id, started);
+    const outcome = await runIngestJob(jobId);
+    expect((await responding).status).toBe(202);
+    expect(outcome.ok).toBe(false);
+    if (outcome.ok) return;
+    expect(outcome.message).toBe("The file was not stored: 2 problems (non-numeric cell, negative spend).");
+    expect(outcome.details).toEqual([
+      expect.objectContaining({ kind: "non-numeric", row: 41_234, line: 41_235, column: "tv", columnNumber: 3, value: "lots" }),
+      expect.objectContaining({ kind: "negative-spend", row: 55_000, line: 55_001, column: "radio", columnNumber: 4 }),
+    ]);
+    const job = await (await getJob(apiRequest(`/api/jobs/${jobId}`, { token: team.tokens.analyst }), routeContext({ id: jobId }))).json();
+    expect(job).toMatchObject({ status: "failed", error: { message: outcome.message, details: outcome.details } });
+    expect(await uploadFootprint(team.workspace.id)).toEqual(before);
+  });
+
+  it("stores nothing when the client goes away mid-upload (the job fails, staging is emptied)", async () => {
+    const file = bigCsv(70_000);
+    const before = await uploadFootprint(team.workspace.id);
+    const started = new Date(Date.now() - 1000);
+    const responding = upload(
+      streamingRequest(team.tokens.analyst, slowly(file, 64 * 1024, 8, 5, 3 * 1024 * 1024), { "content-type": "text/csv", "content-length": String(file.length) }),
+      routeContext(),
+    );
+    const jobId = await waitForJob(team.workspace.id, started);
+    const ingesting = runIngestJob(jobId);
+    const response = await responding;
+    expect(response.status).toBeGreaterThanOrEqual(400); // nobody is there to read it
+    const outcome = await ingesting;
+    expect(outcome).toMatchObject({ ok: false, message: "The upload was interrupted before the whole file arrived. Nothing was stored." });
+    expect(await uploadFootprint(team.workspace.id)).toEqual(before);
+    expect(await stagedChunks()).toBe(0);
+  });
+
+  it("lets the job stop early on a hopeless file while it still arrives; the route still answers 202", async () => {
+    // an unclosed quote in row 1 makes the rest of the file one endless cell: reading stops at 4 MB
+    const file = Buffer.concat([Buffer.from(HEADER + '1990-01-01,"5000,1,2,3,4,5,6,7,8,9,10\n'), bigCsv(90_000).subarray(HEADER.length)]);
+    const before = await uploadFootprint(team.workspace.id);
+    const started = new Date(Date.now() - 1000);
+    const responding = upload(
+      streamingRequest(team.tokens.analyst, slowly(file, 64 * 1024, 4, 10), { "content-type": "text/csv", "content-length": String(file.length) }, "filename=quote.csv"),
+      routeContext(),
+    );
+    const jobId = await waitForJob(team.workspace.id, started);
+    const outcome = await runIngestJob(jobId);
+    expect(outcome.ok).toBe(false);
+    if (outcome.ok) return;
+    expect(outcome.details[0]).toMatchObject({ kind: "row-too-long", line: 2 });
+    const response = await responding;
+    expect(response.status).toBe(202);
+    expect((await response.json()).upload.receivedBytes).toBeLessThan(file.length);
+    expect(await uploadFootprint(team.workspace.id)).toEqual(before);
+    expect(await stagedChunks()).toBe(0);
+  });
+});
+
+describe("staging", () => {
+  it("gives up on an upload whose web server stopped sending (stall), storing nothing", async () => {
+    const before = await uploadFootprint(team.workspace.id);
+    const staged = await beginStagedUpload({ workspaceId: team.workspace.id, userId: team.members.analyst.id, originalFilename: "stalled.csv", options: { roles } });
+    // a web server that wrote two chunks and died: the body never ends
+    let release!: () => void;
+    const hanging = new Promise<void>((resolve) => (release = resolve));
+    const file = bigCsv(30_000);
+    const staging = stageUploadBody(
+      staged.id,
+      (async function* () {
+        yield new Uint8Array(file.subarray(0, 1_100_000));
+        yield new Uint8Array(file.subarray(1_100_000, 2_200_000));
+        await hanging;
+      })(),
+      { maxBytes: 100 * 1024 * 1024 },
+    );
+    staging.catch(() => {});
+    await expect(ingestStagedUpload(staged.id, { stallMs: 300, pollMs: 20 })).rejects.toBeInstanceOf(StagedUploadAborted);
+    release();
+    await expect(staging).rejects.toBeInstanceOf(StagedUploadAborted);
+    expect(await getStagedUpload(staged.id)).toBeNull();
+    expect(await uploadFootprint(team.workspace.id)).toEqual(before);
+  });
+
+  it("refuses a body past the limit and aborts the staged upload", async () => {
+    const staged = await beginStagedUpload({ workspaceId: team.workspace.id, userId: null, originalFilename: "big.csv" });
+    await expect(stageUploadBody(staged.id, slowly(bigCsv(30_000)), { maxBytes: 1_000_000 })).rejects.toThrow("larger than the limit");
+    expect(await getStagedUpload(staged.id)).toMatchObject({ state: "aborted", chunkCount: expect.any(Number) });
+    await expect(async () => {
+      for await (const _ of readStagedUpload(staged.id)) void _;
+    }).rejects.toThrow("larger than the limit");
+    expect(await stagedChunks()).toBe(0);
+  });
+});
