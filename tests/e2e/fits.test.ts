@@ -44,7 +44,7 @@ async function buildFit(page: Page, name: string): Promise<string> {
   await page.getByRole("button", { name: "Fit", exact: true }).click();
   await page.waitForURL(/\/fits\/[0-9a-f-]{36}$/, { timeout: 30_000 });
   expect(await page.getByTestId("fit-name").textContent()).toBe(name);
-  expect(await page.getByTestId("fit-status").getAttribute("data-status"), { timeout: 20_000 }).toBe("draft");
+  expect(await page.getByTestId("fit-status").getAttribute("data-status")).toBe("draft");
   return new URL(page.url()).pathname.split("/").pop()!;
 }
 

@@ -34,6 +34,9 @@ export type ScatterPlotProps = {
   footer?: ReactNode;
 };
 
+/** One decimal of a pixel is plenty and keeps large plots small. */
+const round = (value: number) => Math.round(value * 10) / 10;
+
 function extent(values: readonly number[], include: readonly number[] = []): [number, number] {
   const all = [...values, ...include].filter(Number.isFinite);
   if (all.length === 0) return [0, 1];
@@ -107,8 +110,8 @@ export function ScatterPlot({
             {points.map((point, index) => (
               <circle
                 key={index}
-                cx={x(point.x)}
-                cy={y(point.y)}
+                cx={round(x(point.x))}
+                cy={round(y(point.y))}
                 r={point.highlight ? 3.6 : 2.6}
                 fill={point.highlight ? chartColors.ember : chartColors.shallows}
                 fillOpacity={point.highlight ? 0.95 : 0.6}

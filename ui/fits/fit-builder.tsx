@@ -44,7 +44,13 @@ const levels = [0.8, 0.9, 0.95, 0.99];
  * level; shows the design (n, number of terms) as it changes and refuses what the engine would.
  * Small datasets come back fitted at once; large ones run as a job whose progress shows here.
  */
-export function FitBuilder(props: { datasets: BuilderDataset[]; initial: BuilderInitial | null; refitId: string | null }) {
+export function FitBuilder(props: {
+  datasets: BuilderDataset[];
+  initial: BuilderInitial | null;
+  refitId: string | null;
+  /** Durbin–Watson of the fit this one starts from, when it suggests autocorrelation. */
+  autocorrelatedDurbinWatson?: number | null;
+}) {
   const router = useRouter();
   const ready = props.datasets.filter((d) => d.status === "ready");
   const start = props.initial ?? (ready[0] ? defaultsFor(ready[0]) : null);
@@ -303,6 +309,15 @@ export function FitBuilder(props: { datasets: BuilderDataset[]; initial: Builder
 
         <fieldset className={fieldset}>
           <legend className={legend}>Standard errors and intervals</legend>
+          {props.autocorrelatedDurbinWatson != null && covarianceType !== "newey-west" ? (
+            <p className="mb-3 rounded-md border-l-4 border-ember bg-silt px-3 py-2 text-sm text-slate-900" data-testid="newey-west-suggestion">
+              The fit this one starts from has a Durbin–Watson statistic of {props.autocorrelatedDurbinWatson.toFixed(2)}, far from 2: its errors look
+              autocorrelated. Newey–West standard errors allow for that.{" "}
+              <button type="button" onClick={() => setCovarianceType("newey-west")} className="font-medium text-shallows underline underline-offset-2">
+                Use Newey–West
+              </button>
+            </p>
+          ) : null}
           <div className="flex flex-col gap-2 text-sm text-slate-800">
             {(
               [
@@ -400,12 +415,19 @@ export function FitBuilder(props: { datasets: BuilderDataset[]; initial: Builder
               <p className="text-sm text-slate-700">
                 {job.status === "queued" ? "Waiting for a worker…" : (job.progress?.phase ?? "Starting…")}
               </p>
-              <progress
-                className="mt-1 h-2 w-full accent-shallows"
-                max={job.progress?.total ?? 1}
-                value={job.status === "queued" ? undefined : (job.progress?.done ?? 0)}
+              <div
+                role="progressbar"
                 aria-label="Fit progress"
-              />
+                aria-valuemin={0}
+                aria-valuemax={job.progress?.total ?? 1}
+                aria-valuenow={job.status === "queued" ? undefined : (job.progress?.done ?? 0)}
+                className="mt-1 h-2 w-full overflow-hidden rounded-full bg-shallows-pale"
+              >
+                <div
+                  className={`h-full rounded-full bg-shallows transition-[width] duration-500 ${job.status === "queued" ? "animate-pulse" : ""}`}
+                  style={{ width: `${job.status === "queued" ? 8 : Math.max(8, (100 * ((job.progress?.done ?? 0) + 0.5)) / ((job.progress?.total ?? 1) + 0.5))}%` }}
+                />
+              </div>
             </div>
           ) : null}
         </div>

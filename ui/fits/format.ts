@@ -2,6 +2,18 @@
 
 export type NumberContext = { locale: string; currency: string };
 
+// Intl.NumberFormat objects are costly to build and plots format thousands of values: keep them.
+const formatters = new Map<string, Intl.NumberFormat>();
+function numberFormat(locale: string, options: Intl.NumberFormatOptions): Intl.NumberFormat {
+  const key = `${locale}|${JSON.stringify(options)}`;
+  let formatter = formatters.get(key);
+  if (!formatter) {
+    formatter = new Intl.NumberFormat(locale, options);
+    formatters.set(key, formatter);
+  }
+  return formatter;
+}
+
 const isCurrencyCode = (unit: string | null | undefined): unit is string => !!unit && /^[A-Z]{3}$/.test(unit);
 
 /** A plain number with about `digits` significant digits (never exponent notation for everyday sizes). */
@@ -11,7 +23,7 @@ export function formatNumber(value: number | null | undefined, locale: string, d
   const magnitude = Math.abs(value);
   if (magnitude >= 1e15 || magnitude < 1e-6) return value.toExponential(digits - 1);
   const fractionDigits = Math.max(0, Math.min(10, digits - 1 - Math.floor(Math.log10(magnitude))));
-  return new Intl.NumberFormat(locale, { maximumFractionDigits: fractionDigits, minimumFractionDigits: Math.min(fractionDigits, 2) }).format(value);
+  return numberFormat(locale, { maximumFractionDigits: fractionDigits, minimumFractionDigits: Math.min(fractionDigits, 2) }).format(value);
 }
 
 /** A value in a column's unit: currency codes as money ("€182,000"), other units after the number. */
@@ -20,7 +32,7 @@ export function formatInUnit(value: number | null | undefined, unit: string | nu
   if (isCurrencyCode(unit)) {
     const magnitude = Math.abs(value);
     const fractionDigits = magnitude >= 100 ? 0 : Math.max(0, Math.min(6, digits - 1 - Math.floor(Math.log10(magnitude || 1))));
-    return new Intl.NumberFormat(locale, { style: "currency", currency: unit, maximumFractionDigits: fractionDigits, minimumFractionDigits: 0 }).format(value);
+    return numberFormat(locale, { style: "currency", currency: unit, maximumFractionDigits: fractionDigits, minimumFractionDigits: 0 }).format(value);
   }
   const number = formatNumber(value, locale, digits);
   return unit ? `${number} ${unit}` : number;
@@ -29,9 +41,9 @@ export function formatInUnit(value: number | null | undefined, unit: string | nu
 /** Compact axis ticks: "€120k", "1.2M". */
 export function formatCompact(value: number, unit: string | null | undefined, locale: string): string {
   if (isCurrencyCode(unit)) {
-    return new Intl.NumberFormat(locale, { style: "currency", currency: unit, notation: "compact", maximumFractionDigits: 1 }).format(value);
+    return numberFormat(locale, { style: "currency", currency: unit, notation: "compact", maximumFractionDigits: 1 }).format(value);
   }
-  return new Intl.NumberFormat(locale, { notation: "compact", maximumFractionDigits: 2 }).format(value);
+  return numberFormat(locale, { notation: "compact", maximumFractionDigits: 2 }).format(value);
 }
 
 /** p-values as numbers, never stars: "< 0.0001", "0.0138", "0.840". */
@@ -43,7 +55,7 @@ export function formatPValue(p: number | null | undefined): string {
 }
 
 export function formatPercent(value: number, locale: string, fractionDigits = 1): string {
-  return new Intl.NumberFormat(locale, { style: "percent", maximumFractionDigits: fractionDigits, minimumFractionDigits: fractionDigits }).format(value);
+  return numberFormat(locale, { style: "percent", maximumFractionDigits: fractionDigits, minimumFractionDigits: fractionDigits }).format(value);
 }
 
 /** "EUR", "weeks" or "no unit" for headings and axis labels. */

@@ -4,6 +4,7 @@ import { requirePageActor } from "@/server/authz";
 import { getDatasetById, listDatasetsByWorkspace } from "@/server/datasets/store";
 import { getFitById } from "@/server/fits/store";
 import { FitBuilder, type BuilderDataset, type BuilderInitial } from "@/ui/fits/fit-builder";
+import { durbinWatsonNote } from "@/ui/fits/fit-summary";
 import { PageHeading } from "@/ui/section";
 
 export const metadata: Metadata = { title: "Build a fit" };
@@ -31,6 +32,7 @@ export default async function NewFitPage({ searchParams }: Props) {
   // "Build a new fit from this one" / "Change and refit": start from an existing fit's request.
   let initial: BuilderInitial | null = null;
   let refitId: string | null = null;
+  let autocorrelatedDurbinWatson: number | null = null;
   const from = typeof query.from === "string" && z.uuid().safeParse(query.from).success ? query.from : null;
   if (from) {
     const fit = await getFitById(from);
@@ -38,6 +40,7 @@ export default async function NewFitPage({ searchParams }: Props) {
       initial = { ...fit.input, name: fit.input.name };
       if (query.covariance === "newey-west") initial = { ...initial, covariance: { type: "newey-west" } };
       if (fit.authorId === actor.userId && (fit.status === "draft" || fit.status === "changes_requested")) refitId = fit.id;
+      if (durbinWatsonNote(fit.report)?.tone === "warning") autocorrelatedDurbinWatson = fit.report.durbinWatson;
     }
   }
 
@@ -46,7 +49,7 @@ export default async function NewFitPage({ searchParams }: Props) {
       <PageHeading title={refitId ? "Change and refit" : "Build a fit"}>
         A multiple linear regression of an outcome on spend channels and controls. It is saved as a draft; send it for review from its report.
       </PageHeading>
-      <FitBuilder datasets={datasets} initial={initial} refitId={refitId} />
+      <FitBuilder datasets={datasets} initial={initial} refitId={refitId} autocorrelatedDurbinWatson={autocorrelatedDurbinWatson} />
     </div>
   );
 }
