@@ -25,6 +25,8 @@ type Fixtures = {
   newTokenId: (email: string) => Promise<string>;
   /** A fresh Larkspur member (analyst) to change or remove. */
   newMemberId: () => Promise<string>;
+  /** The seeded demo spend history of Larkspur. */
+  datasetId: () => Promise<string>;
   /** The seeded approved and draft demo fits of Larkspur. */
   fitId: (status: "approved" | "draft") => Promise<string>;
   /** A copy of the seeded draft fit built by `authorEmail`, for calls that move it along its states. */
@@ -57,6 +59,16 @@ const routes: RouteCase[] = [
   { method: "GET", route: "/api/auth/[...nextauth]", who: "public", ok: 200, path: () => "/api/auth/providers" },
   // Auth.js's own endpoints: a credentials POST without its CSRF token is turned away with a redirect.
   { method: "POST", route: "/api/auth/[...nextauth]", who: "public", ok: 302, path: () => "/api/auth/callback/credentials", body: {} },
+  { method: "GET", route: "/api/datasets", who: ["admin", "analyst", "reviewer"], ok: 200 },
+  // An empty upload: analysts reach the file checks (422) and nothing is stored.
+  { method: "POST", route: "/api/datasets", who: ["analyst"], ok: 422, body: "" },
+  { method: "GET", route: "/api/datasets/[id]", who: ["admin", "analyst", "reviewer"], ok: 200, path: async (fx) => `/api/datasets/${await fx.datasetId()}` },
+  { method: "GET", route: "/api/datasets/[id]/correlations", who: ["admin", "analyst", "reviewer"], ok: 200, path: async (fx) => `/api/datasets/${await fx.datasetId()}/correlations` },
+  { method: "GET", route: "/api/datasets/[id]/export", who: ["admin", "analyst", "reviewer"], ok: 200, path: async (fx) => `/api/datasets/${await fx.datasetId()}/export` },
+  { method: "GET", route: "/api/datasets/[id]/file", who: ["admin", "analyst", "reviewer"], ok: 200, path: async (fx) => `/api/datasets/${await fx.datasetId()}/file` },
+  // An empty body is refused (422) before the history is looked up, so there is no foreign-workspace case here.
+  { method: "PUT", route: "/api/datasets/[id]/roles", who: ["analyst"], ok: 422, path: async (fx) => `/api/datasets/${await fx.datasetId()}/roles`, body: {}, foreign: false },
+  { method: "GET", route: "/api/datasets/[id]/rows", who: ["admin", "analyst", "reviewer"], ok: 200, path: async (fx) => `/api/datasets/${await fx.datasetId()}/rows` },
   { method: "GET", route: "/api/fits", who: ["admin", "analyst", "reviewer", "planner", "finance"], ok: 200 },
   // An empty body: allowed roles reach validation (422) and nothing is created.
   { method: "POST", route: "/api/fits", who: ["analyst"], ok: 422, body: {} },
@@ -186,6 +198,11 @@ beforeAll(async () => {
       await sql`insert into memberships (workspace_id, user_id, roles) values (${larkspurId}, ${id}, ${["analyst"]})`;
       return id;
     },
+    datasetId: once(async () => {
+      const [row] = await sql<{ id: string }[]>`select id from datasets where workspace_id = ${larkspurId} order by uploaded_at limit 1`;
+      if (!row) throw new Error("the seed has no demo spend history in larkspur");
+      return row.id;
+    }),
     fitId: (status) => (status === "approved" ? approvedFit() : draftFit()),
     newDraftFitId: async (authorEmail) => {
       const source = await draftFit();
