@@ -121,14 +121,7 @@ export function encodeRows(out: CopyBuffer, store: ColumnStore, from: number, to
         textRoom += 4 + 3 * s.length;
       }
     }
-    let nulls = 0;
-    for (let j = 0; j < n; j++) {
-      const x = values[j][i];
-      if (x !== x) nulls++;
-    }
-    const numbersLength = 20 + (n - nulls) * 12 + nulls * 4;
-    const textsRoom = lastText < 0 ? 4 : 4 + 20 + (lastText + 1) * 4 + textRoom;
-    out.ensure(2 + 20 + 8 + 8 + 4 + numbersLength + textsRoom);
+    out.ensure(2 + 20 + 8 + 8 + 4 + 20 + n * 12 + (lastText < 0 ? 4 : 4 + 20 + (lastText + 1) * 4 + textRoom));
 
     out.int16(5);
     out.int32(16);
@@ -138,20 +131,27 @@ export function encodeRows(out: CopyBuffer, store: ColumnStore, from: number, to
     out.int32(4);
     out.int32(store.lines[i]);
 
-    out.int32(numbersLength);
+    // the array's length and null flag are patched after its elements
+    const numbersAt = out.position;
+    out.int32(0);
     out.int32(1); // dimensions
-    out.int32(nulls > 0 ? 1 : 0);
+    out.int32(0);
     out.int32(FLOAT8_OID);
     out.int32(n);
     out.int32(1); // lower bound
+    let nulls = 0;
     for (let j = 0; j < n; j++) {
       const x = values[j][i];
-      if (x !== x) out.int32(-1);
-      else {
+      if (x !== x) {
+        out.int32(-1);
+        nulls++;
+      } else {
         out.int32(8);
         out.float64(x);
       }
     }
+    out.patchInt32(numbersAt, out.position - numbersAt - 4);
+    if (nulls > 0) out.patchInt32(numbersAt + 8, 1);
 
     if (lastText < 0) {
       out.int32(-1);

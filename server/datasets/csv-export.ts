@@ -7,8 +7,8 @@ import "server-only";
  * read as formulas by Excel, LibreOffice and Google Sheets. The rule used for every export:
  * - a number (a JS number, or text that reads as a finite decimal number such as "-12.5" or "+3")
  *   is written as the number: negative values stay numbers;
- * - any other text starting with one of those characters gets a leading single quote (`'=SUM(A1)`),
- *   which spreadsheets show as text and never evaluate;
+ * - any other text starting with one of those characters (also after leading white space) gets a
+ *   leading single quote (`'=SUM(A1)`), which spreadsheets show as text and never evaluate;
  * - then the cell is quoted when it holds the delimiter, a quote, a line break, or leading/trailing
  *   white space, with inner quotes doubled (RFC 4180).
  * Missing values (null, undefined, NaN, ±Infinity) are written as empty cells.

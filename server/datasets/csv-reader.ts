@@ -40,7 +40,7 @@ export const defaultReadLimits: ReadLimits = {
   maxBytes: 200 * 1024 * 1024,
   maxRowChars: 4 * 1024 * 1024,
   maxColumns: 1000,
-  chunkBytes: 1024 * 1024,
+  chunkBytes: 64 * 1024,
 };
 
 export type CsvHeader = {
@@ -103,7 +103,10 @@ function countByte(bytes: Uint8Array, byte: number, end: number): number {
 }
 
 function isBlankRow(row: string[]): boolean {
-  if (row[0].trim() !== "") return false;
+  const first = row[0];
+  // the usual row starts with a visible character: no trim needed
+  if (first.length > 0 && first.charCodeAt(0) > 32 && first.charCodeAt(0) !== 0xa0 && first.charCodeAt(0) !== 0xfeff) return false;
+  if (first.trim() !== "") return false;
   for (let i = 1; i < row.length; i++) if (row[i].trim() !== "") return false;
   return true;
 }

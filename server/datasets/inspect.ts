@@ -28,6 +28,12 @@ export type ColumnStore = {
   values: Float64Array[];
   texts: (Array<string | undefined> | null)[];
   lines: Int32Array;
+  /**
+   * For columns profiled as periods: each row's day number (NaN when missing), read with
+   * `periodDateOrder`; phase 2 reuses them instead of reading every date again.
+   */
+  periodDays?: (Float64Array | null)[];
+  periodDateOrder?: DateOrder;
 };
 
 export type ColumnProfile = {
@@ -54,6 +60,10 @@ export type ColumnProfile = {
 };
 
 const INITIAL_CAPACITY = 1024;
+const POW10 = [1, 1e1, 1e2, 1e3, 1e4, 1e5, 1e6, 1e7, 1e8, 1e9, 1e10, 1e11, 1e12, 1e13, 1e14, 1e15];
+
+/** White space that String.prototype.trim removes, beyond the ASCII controls and space. */
+const isWhiteSpace = (c: number) => c === 0x1680 || (c >= 0x2000 && c <= 0x200a) || c === 0x2028 || c === 0x2029 || c === 0x202f || c === 0x205f || c === 0x3000;
 
 function looksLikeData(cell: string, dateOrder: DateOrder): boolean {
   const t = cell.trim();
@@ -126,10 +136,16 @@ export class Inspector {
     return this.headerOk;
   }
 
-  private grow(needed: number): void {
+  /** Allocates room for `rows` rows at once (from an estimate), sparing the copies of growing. */
+  reserve(rows: number): void {
+    this.grow(rows, true);
+  }
+
+  private grow(needed: number, exact = false): void {
     if (needed <= this.capacity) return;
     let capacity = Math.max(INITIAL_CAPACITY, this.capacity);
-    while (capacity < needed) capacity *= 2;
+    if (exact) capacity = needed;
+    else while (capacity < needed) capacity *= 2;
     for (let j = 0; j < this.columnCount; j++) {
       const next = new Float64Array(capacity);
       next.set(this.values[j].subarray(0, this.rowCount));
@@ -156,6 +172,38 @@ export class Inspector {
       if (row.length !== n) this.ragged(row.length, firstRow + r, lines[r]);
       for (let j = 0; j < m; j++) {
         const cell = row[j];
+        // fastNumber, inlined: plain decimals of at most 15 digits (see cells.ts)
+        const len = cell.length;
+        let k = 0;
+        let c = cell.charCodeAt(0);
+        let negative = false;
+        if (c === 45) {
+          negative = true;
+          k = 1;
+        } else if (c === 43) k = 1;
+        let mantissa = 0;
+        let digits = 0;
+        let scale = 0;
+        let dot = false;
+        for (; k < len; k++) {
+          c = cell.charCodeAt(k);
+          if (c >= 48 && c <= 57) {
+            mantissa = mantissa * 10 + (c - 48);
+            digits++;
+            if (dot) scale++;
+          } else if (c === 46 && !dot) dot = true;
+          else break;
+        }
+        if (k === len && digits > 0 && digits <= 15) {
+          const x = scale === 0 ? mantissa : mantissa / POW10[scale];
+          values[j][i] = negative ? -x : x;
+          continue;
+        }
+        // stopped at a character no number has there (not an exponent, not white space): text
+        if (k < len && k > 0 && c > 32 && c !== 101 && c !== 69 && c !== 0xa0 && c < 0x1680) {
+          this.slowCell(j, i, cell, firstRow + r, lines[r]);
+          continue;
+        }
         const x = fastNumber(cell);
         if (x === x) values[j][i] = x;
         else this.slowCell(j, i, cell, firstRow + r, lines[r]);
@@ -178,6 +226,15 @@ export class Inspector {
   }
 
   private slowCell(j: number, i: number, cell: string, row: number, line: number): void {
+    // fastNumber already tried Number() on any cell that starts like a number; a cell without white
+    // space around it that is longer than every missing token is therefore text (dates, names…)
+    const first = cell.charCodeAt(0);
+    const last = cell.charCodeAt(cell.length - 1);
+    if (cell.length > 4 && first > 32 && last > 32 && first !== 0xa0 && last !== 0xa0 && first !== 0xfeff && last !== 0xfeff && !isWhiteSpace(first) && !isWhiteSpace(last)) {
+      this.values[j][i] = NaN;
+      this.addText(j, i, cell, row, line);
+      return;
+    }
     const kind = cellKind(cell);
     if (typeof kind === "number") {
       this.values[j][i] = kind;
@@ -185,7 +242,10 @@ export class Inspector {
     }
     this.values[j][i] = NaN;
     if (kind === "missing") return;
-    const text = cell.trim();
+    this.addText(j, i, cell.trim(), row, line);
+  }
+
+  private addText(j: number, i: number, text: string, row: number, line: number): void {
     if (text.includes("\u0000")) {
       this.problems.add({
         kind: "nul-character",
@@ -221,8 +281,13 @@ export class Inspector {
   }
 }
 
-/** Profiles every column of a store (also used on a store loaded back from the database). */
+/**
+ * Profiles every column of a store (also used on a store loaded back from the database), and keeps
+ * the day numbers of period columns in `store.periodDays`.
+ */
 export function profileColumns(store: ColumnStore, dateOrder: DateOrder): ColumnProfile[] {
+  store.periodDays = store.names.map(() => null);
+  store.periodDateOrder = dateOrder;
   return store.names.map((name, j) => profileColumn(store, j, dateOrder));
 }
 
@@ -262,7 +327,8 @@ function profileColumn(store: ColumnStore, j: number, dateOrder: DateOrder): Col
     let lo = Infinity;
     let hi = -Infinity;
     let all = true;
-    for (let i = 0; i < texts.length; i++) {
+    const days = new Float64Array(n).fill(NaN);
+    for (let i = 0; i < n; i++) {
       const t = texts[i];
       if (t === undefined) continue;
       const day = readPeriod(t, dateOrder);
@@ -270,6 +336,7 @@ function profileColumn(store: ColumnStore, j: number, dateOrder: DateOrder): Col
         all = false;
         break;
       }
+      days[i] = day;
       if (day < lo) lo = day;
       if (day > hi) hi = day;
     }
@@ -277,6 +344,7 @@ function profileColumn(store: ColumnStore, j: number, dateOrder: DateOrder): Col
       kind = "period";
       firstPeriod = isoDate(lo);
       lastPeriod = isoDate(hi);
+      store.periodDays![j] = days;
     }
   }
   const sample: string[] = [];

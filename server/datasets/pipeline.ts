@@ -38,11 +38,15 @@ export async function runPipeline(
   options: DatasetOptions,
   hooks: PipelineHooks = {},
   limits: Partial<ReadLimits> = {},
+  /** The file size when known (Content-Length, file size): the column store is sized from it. */
+  sizeHint: number | null = null,
 ): Promise<PipelineResult> {
   const problems = new ProblemList(options.maxProblems);
   const inspector = new Inspector(problems, options.dateOrder);
   let headerLine: number | null = null;
   let headerUsable = false;
+  let bytesSeen = 0;
+  let reserved = false;
   const file = await readCsv(
     source,
     { ...limits, maxBytes: options.maxBytes },
@@ -53,12 +57,21 @@ export async function runPipeline(
         if (headerUsable && hooks.headerAccepted) await hooks.headerAccepted(header, inspector.names);
       },
       async rows(rows, lines, firstRow) {
+        if (!reserved && sizeHint !== null && sizeHint > 0 && bytesSeen > 0) {
+          // rows so far per byte so far, 5% to spare (growing by doubling still covers a bad guess)
+          reserved = true;
+          const estimate = Math.ceil(((rows.length + inspector.rowCount) / bytesSeen) * Math.min(sizeHint, options.maxBytes) * 1.05);
+          if (estimate > 0 && estimate < 50_000_000) inspector.reserve(estimate);
+        }
         const from = inspector.rowCount;
         inspector.rows(rows, lines, firstRow);
         if (hooks.rowsAdded && !problems.any) await hooks.rowsAdded(inspector.store(), from, inspector.rowCount);
       },
       problem: (problem) => problems.add(problem),
-      bytes: hooks.bytes,
+      bytes: (chunk) => {
+        bytesSeen += chunk.length;
+        hooks.bytes?.(chunk);
+      },
       progress: hooks.progress,
     },
   );

@@ -234,52 +234,76 @@ export function checkRoles(
     const values = store.values[j];
     const texts = store.texts[j];
     const numeric = columns[j].kind === "numeric";
-    const firstRowOf = new Map<number, number>();
-    let previous = -Infinity;
-    let ascending = true;
+    const cached = store.periodDateOrder === dateOrder ? store.periodDays?.[j] : null;
+    const keys = new Float64Array(n).fill(NaN);
     for (let i = 0; i < n; i++) {
       const x = values[i];
       const text = texts?.[i];
-      let key: number | null = null;
+      let key = NaN;
       if (numeric) {
-        if (x === x) key = Number.isInteger(x) ? x : null;
+        if (x === x && Number.isInteger(x)) key = x;
       } else if (text !== undefined) {
-        const day = readPeriod(text, dateOrder);
-        key = Number.isFinite(day) ? day : null;
-      } else if (x === x) key = null; // a number in a date column
-      if (key === null && x !== x && text === undefined) {
+        key = cached ? cached[i] : readPeriod(text, dateOrder);
+      }
+      if (key === key) {
+        keys[i] = key;
+        continue;
+      }
+      if (x !== x && text === undefined) {
         missingCell(i, j);
         continue;
       }
-      if (key === null) {
-        const shown = text ?? String(x);
+      const shown = text ?? String(x);
+      problems.add({
+        kind: "unparseable-period",
+        message: numeric
+          ? `Row ${i + 1}, column ${j + 1} “${names[j]}”: “${preview(shown)}” is not a whole number (a numeric period column holds week or year numbers).`
+          : `Row ${i + 1}, column ${j + 1} “${names[j]}”: “${preview(shown)}” is not a date; write dates as YYYY-MM-DD${dateOrder === "YMD" ? " (or choose the date order DMY/MDY for dates such as 31/01/2024)" : ""}.`,
+        row: i + 1,
+        line: store.lines[i],
+        column: j + 1,
+        columnName: names[j],
+        value: preview(shown),
+      });
+    }
+    // repeated periods: a sorted copy finds whether there are any; only then find which rows
+    let ascending = true;
+    let previous = -Infinity;
+    for (let i = 0; i < n; i++) {
+      const key = keys[i];
+      if (key !== key) continue;
+      if (key < previous) ascending = false;
+      previous = key;
+    }
+    const sorted = keys.slice().sort(); // NaN sorts last
+    let repeated = false;
+    for (let i = 1; i < n && sorted[i] === sorted[i]; i++) {
+      if (sorted[i] === sorted[i - 1]) {
+        repeated = true;
+        break;
+      }
+    }
+    if (repeated) {
+      const firstRowOf = new Map<number, number>();
+      for (let i = 0; i < n; i++) {
+        const key = keys[i];
+        if (key !== key) continue;
+        const first = firstRowOf.get(key);
+        if (first === undefined) {
+          firstRowOf.set(key, i);
+          continue;
+        }
+        const shown = texts?.[i] ?? String(values[i]);
         problems.add({
-          kind: "unparseable-period",
-          message: numeric
-            ? `Row ${i + 1}, column ${j + 1} “${names[j]}”: “${preview(shown)}” is not a whole number (a numeric period column holds week or year numbers).`
-            : `Row ${i + 1}, column ${j + 1} “${names[j]}”: “${preview(shown)}” is not a date; write dates as YYYY-MM-DD${dateOrder === "YMD" ? " (or choose the date order DMY/MDY for dates such as 31/01/2024)" : ""}.`,
+          kind: "duplicate-period",
+          message: `Row ${i + 1}, column ${j + 1} “${names[j]}”: the period “${preview(shown)}” is also in row ${first + 1}; each period must appear once.`,
           row: i + 1,
           line: store.lines[i],
           column: j + 1,
           columnName: names[j],
           value: preview(shown),
         });
-        continue;
       }
-      const first = firstRowOf.get(key);
-      if (first !== undefined) {
-        problems.add({
-          kind: "duplicate-period",
-          message: `Row ${i + 1}, column ${j + 1} “${names[j]}”: the period “${preview(text ?? String(x))}” is also in row ${first + 1}; each period must appear once.`,
-          row: i + 1,
-          line: store.lines[i],
-          column: j + 1,
-          columnName: names[j],
-          value: preview(text ?? String(x)),
-        });
-      } else firstRowOf.set(key, i);
-      if (key < previous) ascending = false;
-      previous = key;
     }
     if (!ascending) {
       problems.note({

@@ -332,7 +332,7 @@ export async function createDataset(input: CreateDatasetInput): Promise<CreateDa
 
   let result: Awaited<ReturnType<typeof runPipeline>>;
   try {
-    result = await runPipeline(input.stream, options, hooks);
+    result = await runPipeline(input.stream, options, hooks, {}, input.totalBytes ?? null);
   } catch (error) {
     await abort().catch(() => {});
     throw error;

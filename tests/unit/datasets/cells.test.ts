@@ -2,6 +2,8 @@
 import fc from "fast-check";
 import { describe, expect, it } from "vitest";
 import { cellKind, dayNumber, fastNumber, isoDate, readCell, readPeriod } from "@/server/datasets/cells";
+import { checkCsv } from "@/server/datasets/pipeline";
+import { chunked } from "./helpers";
 
 describe("numbers", () => {
   it.each([
@@ -89,6 +91,33 @@ describe("numbers", () => {
         if (!Number.isNaN(x)) expect(readCell(s)).toEqual({ kind: "number", value: x });
       }),
       { numRuns: 5000 },
+    );
+  });
+});
+
+describe("the reader's hot path (inlined in inspect.ts)", () => {
+  it("stores exactly what readCell says, for any cell", async () => {
+    const decimal = fc
+      .tuple(fc.constantFrom("", "-", "+", " "), fc.stringMatching(/^\d{0,17}$/), fc.constantFrom("", ".", "e", "E-", " ", ",", "-", "x"), fc.stringMatching(/^\d{0,4}$/))
+      .map((parts) => parts.join(""));
+    const cell = fc.oneof(decimal, fc.string({ maxLength: 8 }), fc.constantFrom("NA", "NaN", "-inf", "1e999", "0x1F", "1.5\u3000", "\u00a07", "2024-01-01", "1,5"));
+    await fc.assert(
+      fc.asyncProperty(fc.array(cell, { minLength: 1, maxLength: 25 }), async (cells) => {
+        const text = "x\n" + cells.map((c) => `"${c.replace(/"/g, '""')}"`).join("\n") + "\n";
+        const { store } = await checkCsv(chunked(text));
+        const kept = cells.filter((c) => c.trim() !== "");
+        expect(store.rowCount).toBe(kept.length);
+        kept.forEach((c, i) => {
+          const reading = readCell(c);
+          const x = store.values[0][i];
+          const t = store.texts[0]?.[i];
+          if (reading.kind === "number") expect(Object.is(x, reading.value) || (x === 0 && reading.value === 0)).toBe(true);
+          else expect(x).toBeNaN();
+          if (reading.kind === "number" || reading.kind === "missing") expect(t).toBeUndefined();
+          else expect(t).toBe(c.trim());
+        });
+      }),
+      { numRuns: 1500 },
     );
   });
 });
