@@ -1,11 +1,11 @@
 import { Readable } from "node:stream";
-import { and, eq } from "drizzle-orm";
+import { and, eq, inArray } from "drizzle-orm";
 import type { Database } from "@/db/client";
 import { datasets, fits, users, workspaces } from "@/db/schema";
 import { assignDatasetRoles, createDataset } from "@/server/datasets/store";
 import { executeFit, prepareFit, storeComputedFit } from "@/server/fits/run";
 import { applyFitTransition } from "@/server/fits/transitions";
-import type { FitInput } from "@/server/fits/types";
+import type { FitInput, FitStatus } from "@/server/fits/types";
 import { demoAccountFor } from "./demo-accounts";
 import { demoChannels, demoControl, demoHistoryCsv, demoOutcome, demoPeriod } from "./history";
 
@@ -63,11 +63,24 @@ async function ensureDemoDataset(db: Db, workspaceId: string, analystId: string)
   return upload.dataset.id;
 }
 
-async function ensureFit(db: Db, input: { workspaceId: string; analystId: string; fitInput: FitInput }): Promise<{ id: string; status: string; created: boolean }> {
+async function ensureFit(
+  db: Db,
+  input: { workspaceId: string; analystId: string; fitInput: FitInput; existingStatuses: FitStatus[] },
+): Promise<{ id: string; status: string; created: boolean }> {
+  // Only fits the seed could have made count: a person's own draft of the same name is left alone.
   const [existing] = await db
     .select({ id: fits.id, status: fits.status })
     .from(fits)
-    .where(and(eq(fits.workspaceId, input.workspaceId), eq(fits.name, input.fitInput.name!)));
+    .where(
+      and(
+        eq(fits.workspaceId, input.workspaceId),
+        eq(fits.name, input.fitInput.name!),
+        eq(fits.authorId, input.analystId),
+        inArray(fits.status, input.existingStatuses),
+      ),
+    )
+    .orderBy(fits.createdAt)
+    .limit(1);
   if (existing) return { ...existing, created: false };
   const prepared = await prepareFit(input.workspaceId, input.fitInput);
   const computed = await executeFit(prepared, input.fitInput);
@@ -97,7 +110,13 @@ export async function seedDemoFit(db: Db): Promise<void> {
   const datasetId = await ensureDemoDataset(db, workspace.id, analystId);
   const channels = demoChannels.map((channel) => channel.column);
 
-  const approved = await ensureFit(db, { workspaceId: workspace.id, analystId, fitInput: demoFitInput(datasetId, demoApprovedFitName, channels) });
+  // An interrupted earlier seed may have left it on the way (draft or in review): pick it up there.
+  const approved = await ensureFit(db, {
+    workspaceId: workspace.id,
+    analystId,
+    fitInput: demoFitInput(datasetId, demoApprovedFitName, channels),
+    existingStatuses: ["approved", "retired", "in_review", "draft"],
+  });
   const steps: { status: string; action: "submit" | "approve"; userId: string; comment: string | null }[] = [
     { status: "draft", action: "submit", userId: analystId, comment: "All six channels plus promotion weeks, classical errors (Durbin–Watson is near 2)." },
     {
@@ -123,6 +142,7 @@ export async function seedDemoFit(db: Db): Promise<void> {
       demoDraftFitName,
       channels.filter((column) => column !== "video_eur"),
     ),
+    existingStatuses: ["draft", "in_review", "changes_requested", "approved", "retired"],
   });
   console.log(`demo fit: dataset ${datasetId}; approved fit ${approved.id}${approved.created ? " (new)" : ""}; draft ${draft.id}${draft.created ? " (new)" : ""}`);
 }

@@ -37,9 +37,10 @@ export default async function NewFitPage({ searchParams }: Props) {
   if (from) {
     const fit = await getFitById(from);
     if (fit && fit.workspaceId === actor.workspaceId && datasets.some((d) => d.id === fit.datasetId)) {
-      initial = { ...fit.input, name: fit.input.name };
+      initial = { ...fit.input, name: fit.name };
       if (query.covariance === "newey-west") initial = { ...initial, covariance: { type: "newey-west" } };
       if (fit.authorId === actor.userId && (fit.status === "draft" || fit.status === "changes_requested")) refitId = fit.id;
+      else initial = { ...initial, name: `${fit.name} (revised)`.slice(0, 200) };
       if (durbinWatsonNote(fit.report)?.tone === "warning") autocorrelatedDurbinWatson = fit.report.durbinWatson;
     }
   }
