@@ -12,7 +12,7 @@ export const metadata: Metadata = { title: "Home" };
 export default async function HomePage() {
   const actor = await requirePageActor("workspace:read");
   const [events, members, approvedFits, scenarios] = await Promise.all([
-    listAuditEventsByWorkspaceId({ workspaceId: actor.workspaceId, limit: 10 }),
+    listAuditEventsByWorkspaceId({ workspaceId: actor.workspaceId, limit: 10, excludeObjectTypes: ["api_token"] }),
     listMembersByWorkspaceId(actor.workspaceId),
     can(actor, "fit:read") ? listApprovedFits(actor.workspaceId) : null,
     can(actor, "scenario:read") ? listScenariosByWorkspace({ workspaceId: actor.workspaceId }) : null,

@@ -1,5 +1,5 @@
 import "server-only";
-import { desc, eq } from "drizzle-orm";
+import { and, desc, eq, notInArray } from "drizzle-orm";
 import { db, type Database } from "@/db/client";
 import { auditLog, users } from "@/db/schema";
 
@@ -40,7 +40,12 @@ export async function recordAudit(entry: AuditEntry, tx: DbExecutor = db): Promi
   });
 }
 
-export async function listAuditEventsByWorkspaceId(input: { workspaceId: string; limit?: number }): Promise<AuditEventDto[]> {
+/** Newest first; `excludeObjectTypes` leaves out personal entries (e.g. "api_token") from shared views. */
+export async function listAuditEventsByWorkspaceId(input: {
+  workspaceId: string;
+  limit?: number;
+  excludeObjectTypes?: string[];
+}): Promise<AuditEventDto[]> {
   return db
     .select({
       id: auditLog.id,
@@ -54,7 +59,11 @@ export async function listAuditEventsByWorkspaceId(input: { workspaceId: string;
     })
     .from(auditLog)
     .leftJoin(users, eq(users.id, auditLog.actorUserId))
-    .where(eq(auditLog.workspaceId, input.workspaceId))
+    .where(
+      input.excludeObjectTypes?.length
+        ? and(eq(auditLog.workspaceId, input.workspaceId), notInArray(auditLog.objectType, input.excludeObjectTypes))
+        : eq(auditLog.workspaceId, input.workspaceId),
+    )
     .orderBy(desc(auditLog.at), desc(auditLog.id))
     .limit(Math.min(input.limit ?? 20, 200));
 }

@@ -1,5 +1,6 @@
 // Account and workspace settings in the browser: API tokens shown once and revocable, the last-admin
 // rule, and pages that a role may not open.
+import { randomBytes } from "node:crypto";
 import type { Browser } from "playwright-core";
 import { afterAll, beforeAll, expect, test } from "vitest";
 import { launch, openPage } from "./support/browser";
@@ -19,7 +20,8 @@ test("a planner creates an API token, it is shown once and works with the planne
   try {
     await signInAs(page, "planner");
     await page.goto("/settings/tokens");
-    await page.getByLabel("Name").fill("Finance export script");
+    const name = `Finance export ${randomBytes(3).toString("hex")}`;
+    await page.getByLabel("Name").fill(name);
     await page.getByRole("button", { name: "Create token" }).click();
     const secret = page.getByLabel("Your new token (shown only once)");
     await expect.poll(() => secret.count(), { timeout: 15_000 }).toBe(1);
@@ -33,7 +35,7 @@ test("a planner creates an API token, it is shown once and works with the planne
 
     await page.reload();
     expect(await page.getByLabel("Your new token (shown only once)").count()).toBe(0);
-    const row = page.getByTestId("token-Finance export script");
+    const row = page.getByTestId(`token-${name}`);
     expect(await row.textContent()).toContain(token.slice(0, 9));
     expect(await row.textContent()).not.toContain(token.slice(9));
     await expect.poll(async () => (await row.textContent()) ?? "").not.toContain("Not yet");
