@@ -8,7 +8,7 @@ const nextConfig: NextConfig = {
   // Uploads of spend histories can be large; route handlers stream them, server actions stay small.
   // authInterrupts: forbidden() in requirePageActor renders app/forbidden.tsx with status 403.
   experimental: { serverActions: { bodySizeLimit: "2mb" }, authInterrupts: true },
-  serverExternalPackages: ["@node-rs/argon2", "pg-boss", "smtp-server"],
+  serverExternalPackages: ["@node-rs/argon2", "pg-boss", "smtp-server", "pdfkit"],
 };
 
 export default nextConfig;
