@@ -38,8 +38,28 @@ function typeLabel(schema: Schema): string {
   if (schema.allOf) return schema.allOf.map(typeLabel).join(" & ");
   if (schema.enum) return schema.enum.map((value) => JSON.stringify(value)).join(" | ");
   const type = Array.isArray(schema.type) ? schema.type.join(" | ") : (schema.type ?? "any");
-  if (type === "array" && schema.items) return `${typeLabel(schema.items)}[]`;
+  if (type === "array" && schema.items) {
+    const item = typeLabel(schema.items);
+    return item.includes(" ") ? `(${item})[]` : `${item}[]`;
+  }
   return schema.format ? `${type} (${schema.format})` : type;
+}
+
+/** The descriptions use Markdown's `code` spans; show them as code, everything else as text. */
+function Prose({ text }: { text: string }) {
+  return (
+    <>
+      {text.split("`").map((part, index) =>
+        index % 2 === 1 ? (
+          <code key={index} className="rounded bg-silt px-1 font-mono text-[0.9em]">
+            {part}
+          </code>
+        ) : (
+          part
+        ),
+      )}
+    </>
+  );
 }
 
 function Fields({ schema }: { schema: Schema }) {
@@ -58,7 +78,7 @@ function Fields({ schema }: { schema: Schema }) {
             </td>
             <td className="py-1 pr-3 font-mono text-slate-700">{typeLabel(field)}</td>
             <td className="py-1 text-slate-700">
-              {field.description ?? (field.$ref ? resolve(field).description : "")}
+              <Prose text={field.description ?? (field.$ref ? (resolve(field).description ?? "") : "")} />
               {field.default !== undefined ? <span className="text-slate-500"> Default {JSON.stringify(field.default)}.</span> : null}
             </td>
           </tr>
@@ -77,7 +97,7 @@ export default async function ApiDocsPage() {
   return (
     <div className="flex flex-col gap-6">
       <PageHeading title="API">
-        {openApiDocument.info.description}{" "}
+        <Prose text={openApiDocument.info.description} />{" "}
         <a href="/api/openapi" className="text-shallows underline-offset-2 hover:underline">
           The OpenAPI 3.1 document (JSON)
         </a>
@@ -98,7 +118,11 @@ export default async function ApiDocsPage() {
                       <code className="font-mono text-sm font-semibold text-slate-900">{path}</code>
                       <span className="text-sm text-slate-700">— {operation.summary}</span>
                     </h3>
-                    {operation.description ? <p className="mt-2 text-sm text-slate-700">{operation.description}</p> : null}
+                    {operation.description ? (
+                      <p className="mt-2 text-sm text-slate-700">
+                        <Prose text={operation.description} />
+                      </p>
+                    ) : null}
                     {operation.parameters?.length ? (
                       <div className="mt-3">
                         <h4 className="text-xs font-semibold uppercase tracking-wide text-slate-600">Parameters</h4>
@@ -145,7 +169,11 @@ export default async function ApiDocsPage() {
           {Object.entries(schemas).map(([name, schema]) => (
             <div key={name} id={`schema-${name}`}>
               <h3 className="font-mono text-sm font-semibold text-river">{name}</h3>
-              {schema.description ? <p className="text-xs text-slate-700">{schema.description}</p> : null}
+              {schema.description ? (
+                <p className="text-xs text-slate-700">
+                  <Prose text={schema.description} />
+                </p>
+              ) : null}
               <Fields schema={schema} />
             </div>
           ))}

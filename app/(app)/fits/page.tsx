@@ -28,7 +28,11 @@ export default async function FitsPage() {
     <div className="flex flex-col gap-6">
       <div className="flex flex-wrap items-start justify-between gap-4">
         <PageHeading title="Fits">
-          Regressions of an outcome on spend channels and controls. Only approved fits reach planners.
+          Regressions of an outcome on spend channels and controls. Only approved fits reach planners. Scripts can do the same through{" "}
+          <Link href="/api-docs#api-fits" className="text-shallows underline-offset-2 hover:underline">
+            the API
+          </Link>
+          .
         </PageHeading>
         {can(actor, "fit:create") ? (
           <Link href="/fits/new" className={buttonClass("primary")}>
