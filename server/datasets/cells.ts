@@ -173,6 +173,44 @@ export function isoDate(day: number): string {
   return `${String(y).padStart(4, "0")}-${String(m).padStart(2, "0")}-${String(d).padStart(2, "0")}`;
 }
 
+/** Writes the ISO date (YYYY-MM-DD, years 0-9999) of a day number as 10 ASCII bytes at `at`. */
+export function writeIsoDate(out: Uint8Array, at: number, day: number): void {
+  const z = day + 719468;
+  const era = Math.floor(z / 146097);
+  const doe = z - era * 146097;
+  const yoe = Math.floor((doe - Math.floor(doe / 1460) + Math.floor(doe / 36524) - Math.floor(doe / 146096)) / 365);
+  const doy = doe - (365 * yoe + Math.floor(yoe / 4) - Math.floor(yoe / 100));
+  const mp = Math.floor((5 * doy + 2) / 153);
+  const d = doy - Math.floor((153 * mp + 2) / 5) + 1;
+  const m = mp < 10 ? mp + 3 : mp - 9;
+  const y = yoe + era * 400 + (m <= 2 ? 1 : 0);
+  out[at] = 48 + Math.floor(y / 1000);
+  out[at + 1] = 48 + (Math.floor(y / 100) % 10);
+  out[at + 2] = 48 + (Math.floor(y / 10) % 10);
+  out[at + 3] = 48 + (y % 10);
+  out[at + 4] = 45;
+  out[at + 5] = 48 + Math.floor(m / 10);
+  out[at + 6] = 48 + (m % 10);
+  out[at + 7] = 45;
+  out[at + 8] = 48 + Math.floor(d / 10);
+  out[at + 9] = 48 + (d % 10);
+}
+
+/**
+ * The day number of a cell that is exactly a valid YYYY-MM-DD date (then `isoDate` gives the cell
+ * back unchanged), else NaN.
+ */
+export function canonicalIsoDay(cell: string): number {
+  if (cell.length !== 10 || cell.charCodeAt(4) !== 45 || cell.charCodeAt(7) !== 45) return NaN;
+  const a = digit(cell, 0), b = digit(cell, 1), c = digit(cell, 2), d = digit(cell, 3);
+  const e = digit(cell, 5), f = digit(cell, 6), g = digit(cell, 8), h = digit(cell, 9);
+  // (x >>> 0) < 10 holds exactly for the digits 0-9 (a character below "0" gives a negative x)
+  if (!((a >>> 0) < 10 && (b >>> 0) < 10 && (c >>> 0) < 10 && (d >>> 0) < 10 && (e >>> 0) < 10 && (f >>> 0) < 10 && (g >>> 0) < 10 && (h >>> 0) < 10)) {
+    return NaN;
+  }
+  return dayNumber(a * 1000 + b * 100 + c * 10 + d, e * 10 + f, g * 10 + h);
+}
+
 /** Weekday of a day number, Monday = 0. */
 const weekday = (day: number) => (((day + 3) % 7) + 7) % 7;
 
@@ -196,14 +234,8 @@ const digit = (s: string, i: number) => s.charCodeAt(i) - 48;
  */
 export function readPeriod(cell: string, order: DateOrder = "YMD"): number {
   // fast path: exactly YYYY-MM-DD
-  if (cell.length === 10 && cell.charCodeAt(4) === 45 && cell.charCodeAt(7) === 45) {
-    const a = digit(cell, 0), b = digit(cell, 1), c = digit(cell, 2), d = digit(cell, 3);
-    const e = digit(cell, 5), f = digit(cell, 6), g = digit(cell, 8), h = digit(cell, 9);
-    // each is a digit exactly when (x >>> 0) < 10
-    if (((a | b | c | d | e | f | g | h) >>> 0) < 16 && a < 10 && b < 10 && c < 10 && d < 10 && e < 10 && f < 10 && g < 10 && h < 10) {
-      return dayNumber(a * 1000 + b * 100 + c * 10 + d, e * 10 + f, g * 10 + h);
-    }
-  }
+  const canonical = canonicalIsoDay(cell);
+  if (canonical === canonical) return canonical;
   const t = cell.trim();
   let m: RegExpExecArray | null;
   if ((m = ISO_DATE.exec(t)) || (m = YMD_OTHER.exec(t))) return dayNumber(+m[1], +m[2], +m[3]);

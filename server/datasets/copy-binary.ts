@@ -1,4 +1,5 @@
 import "server-only";
+import { writeIsoDate } from "./cells";
 import type { ColumnStore } from "./inspect";
 
 /**
@@ -90,6 +91,12 @@ export class CopyBuffer {
     return n;
   }
 
+  /** Writes a day number as its 10-byte ISO date. */
+  isoDate(day: number): void {
+    writeIsoDate(this.buffer, this.pos, day);
+    this.pos += 10;
+  }
+
   get position(): number {
     return this.pos;
   }
@@ -107,18 +114,25 @@ export function encodeRows(out: CopyBuffer, store: ColumnStore, from: number, to
   const n = store.names.length;
   const values = store.values;
   const texts = store.texts;
+  const dates = store.dates ?? [];
   const textColumns: number[] = [];
-  for (let j = 0; j < n; j++) if (texts[j]) textColumns.push(j);
+  for (let j = 0; j < n; j++) if (texts[j] || dates[j]) textColumns.push(j);
   for (let i = from; i < to; i++) {
     // texts of this row: the last column holding text, and the room the texts need
     let lastText = -1;
     let textRoom = 0;
     for (let t = 0; t < textColumns.length; t++) {
       const j = textColumns[t];
-      const s = texts[j]![i];
+      const s = texts[j]?.[i];
       if (s !== undefined) {
         lastText = j;
         textRoom += 4 + 3 * s.length;
+      } else {
+        const day = dates[j]?.[i];
+        if (day !== undefined && day === day) {
+          lastText = j;
+          textRoom += 4 + 10;
+        }
       }
     }
     out.ensure(2 + 20 + 8 + 8 + 4 + 20 + n * 12 + (lastText < 0 ? 4 : 4 + 20 + (lastText + 1) * 4 + textRoom));
@@ -157,25 +171,33 @@ export function encodeRows(out: CopyBuffer, store: ColumnStore, from: number, to
       out.int32(-1);
       continue;
     }
-    const lengthAt = out.position;
-    out.int32(0); // patched below
+    const textsAt = out.position;
+    out.int32(0); // length, patched below
     out.int32(1);
-    let textNulls = 0;
-    for (let j = 0; j <= lastText; j++) if (texts[j]?.[i] === undefined) textNulls++;
-    out.int32(textNulls > 0 ? 1 : 0);
+    out.int32(0); // null flag, patched below
     out.int32(TEXT_OID);
     out.int32(lastText + 1);
     out.int32(1);
+    let textNulls = 0;
     for (let j = 0; j <= lastText; j++) {
       const s = texts[j]?.[i];
-      if (s === undefined) out.int32(-1);
-      else {
+      if (s !== undefined) {
         const at = out.position;
         out.int32(0);
         out.patchInt32(at, out.utf8(s));
+        continue;
+      }
+      const day = dates[j]?.[i];
+      if (day !== undefined && day === day) {
+        out.int32(10);
+        out.isoDate(day);
+      } else {
+        out.int32(-1);
+        textNulls++;
       }
     }
-    out.patchInt32(lengthAt, out.position - lengthAt - 4);
+    out.patchInt32(textsAt, out.position - textsAt - 4);
+    if (textNulls > 0) out.patchInt32(textsAt + 8, 1);
   }
 }
 

@@ -1,8 +1,17 @@
 import "server-only";
-import { cellKind, fastNumber as fastNumberImported, isoDate, preview, readPeriod, type DateOrder } from "./cells";
+import {
+  canonicalIsoDay as canonicalIsoDayImported,
+  cellKind,
+  fastNumber as fastNumberImported,
+  isoDate,
+  preview,
+  readPeriod,
+  type DateOrder,
+} from "./cells";
 
-// a local binding: module-namespace getters of transpiled imports cost in the hot loop
+// local bindings: module-namespace getters of transpiled imports cost in the hot loop
 const fastNumber = fastNumberImported;
+const canonicalIsoDay = canonicalIsoDayImported;
 import type { CsvHeader } from "./csv-reader";
 import type { ProblemList } from "./problems";
 
@@ -19,14 +28,18 @@ export type ColumnKind = "numeric" | "period" | "text";
 
 /**
  * The parsed table: row i (0-based; data row i + 1) of column j is `values[j][i]`, NaN when the cell
- * is missing or not a number; `texts[j][i]` holds the trimmed cell when it is not a number and not
- * missing (null when column j has no such cell). `lines[i]` is the file line where row i starts.
+ * is missing or not a number. A cell that is neither a number nor missing is text: a cell that is
+ * exactly a YYYY-MM-DD date is kept as its day number in `dates[j][i]` (no string per row for the
+ * usual date column), any other text as the trimmed cell in `texts[j][i]`; read text with
+ * {@link cellText}. `lines[i]` is the file line where row i starts.
  */
 export type ColumnStore = {
   names: string[];
   rowCount: number;
   values: Float64Array[];
   texts: (Array<string | undefined> | null)[];
+  /** Day numbers of the YYYY-MM-DD cells (NaN elsewhere); null for a column without such cells. */
+  dates?: (Float64Array | null)[];
   lines: Int32Array;
   /**
    * For columns profiled as periods: each row's day number (NaN when missing), read with
@@ -59,6 +72,14 @@ export type ColumnProfile = {
   constant: boolean;
 };
 
+/** The text of a cell (undefined for numbers and missing cells). */
+export function cellText(store: ColumnStore, j: number, i: number): string | undefined {
+  const t = store.texts[j]?.[i];
+  if (t !== undefined) return t;
+  const day = store.dates?.[j]?.[i];
+  return day !== undefined && day === day ? isoDate(day) : undefined;
+}
+
 const INITIAL_CAPACITY = 1024;
 const POW10 = [1, 1e1, 1e2, 1e3, 1e4, 1e5, 1e6, 1e7, 1e8, 1e9, 1e10, 1e11, 1e12, 1e13, 1e14, 1e15];
 
@@ -79,6 +100,7 @@ export class Inspector {
   private capacity = 0;
   private values: Float64Array[] = [];
   private texts: (Array<string | undefined> | null)[] = [];
+  private dates: (Float64Array | null)[] = [];
   private lines = new Int32Array(0);
   private raggedRows = 0;
 
@@ -132,6 +154,7 @@ export class Inspector {
     this.columnCount = names.length;
     this.values = names.map(() => new Float64Array(0));
     this.texts = names.map(() => null);
+    this.dates = names.map(() => null);
     this.headerOk = this.problems.total === before;
     return this.headerOk;
   }
@@ -150,6 +173,12 @@ export class Inspector {
       const next = new Float64Array(capacity);
       next.set(this.values[j].subarray(0, this.rowCount));
       this.values[j] = next;
+      const dates = this.dates[j];
+      if (dates) {
+        const nextDates = new Float64Array(capacity).fill(NaN);
+        nextDates.set(dates.subarray(0, this.rowCount));
+        this.dates[j] = nextDates;
+      }
     }
     const lines = new Int32Array(capacity);
     lines.set(this.lines.subarray(0, this.rowCount));
@@ -201,7 +230,11 @@ export class Inspector {
         }
         // stopped at a character no number has there (not an exponent, not white space): text
         if (k < len && k > 0 && c > 32 && c !== 101 && c !== 69 && c !== 0xa0 && c < 0x1680) {
-          this.slowCell(j, i, cell, firstRow + r, lines[r]);
+          const day = k === 4 && c === 45 ? canonicalIsoDay(cell) : NaN;
+          if (day === day) {
+            values[j][i] = NaN;
+            (this.dates[j] ?? this.allocateDates(j))[i] = day;
+          } else this.slowCell(j, i, cell, firstRow + r, lines[r]);
           continue;
         }
         const x = fastNumber(cell);
@@ -261,12 +294,19 @@ export class Inspector {
     texts[i] = text;
   }
 
+  private allocateDates(j: number): Float64Array {
+    const dates = new Float64Array(this.capacity).fill(NaN);
+    this.dates[j] = dates;
+    return dates;
+  }
+
   store(): ColumnStore {
     return {
       names: this.names,
       rowCount: this.rowCount,
       values: this.values.map((v) => v.subarray(0, this.rowCount)),
       texts: this.texts,
+      dates: this.dates.map((d) => (d ? d.subarray(0, this.rowCount) : null)),
       lines: this.lines.subarray(0, this.rowCount),
     };
   }
@@ -318,40 +358,57 @@ function profileColumn(store: ColumnStore, j: number, dateOrder: DateOrder): Col
     }
     std = Math.sqrt(ss / (numericCount - 1));
   }
+  const dates = store.dates?.[j] ?? null;
   let textCount = 0;
+  let dateCount = 0;
   if (texts) for (let i = 0; i < texts.length; i++) if (texts[i] !== undefined) textCount++;
-  let kind: ColumnKind = textCount === 0 && numericCount > 0 ? "numeric" : "text";
+  let lo = Infinity;
+  let hi = -Infinity;
+  if (dates) {
+    for (let i = 0; i < n; i++) {
+      const day = dates[i];
+      if (day === day) {
+        dateCount++;
+        if (day < lo) lo = day;
+        if (day > hi) hi = day;
+      }
+    }
+  }
+  let kind: ColumnKind = textCount + dateCount === 0 && numericCount > 0 ? "numeric" : "text";
   let firstPeriod: string | null = null;
   let lastPeriod: string | null = null;
-  if (texts && textCount > 0 && numericCount === 0) {
-    let lo = Infinity;
-    let hi = -Infinity;
+  if (textCount + dateCount > 0 && numericCount === 0) {
     let all = true;
-    const days = new Float64Array(n).fill(NaN);
-    for (let i = 0; i < n; i++) {
-      const t = texts[i];
-      if (t === undefined) continue;
-      const day = readPeriod(t, dateOrder);
-      if (day !== day) {
-        all = false;
-        break;
+    let days: Float64Array | null = dates;
+    if (texts && textCount > 0) {
+      // the other texts must be periods too (2024-W05, 2024-01, 31/01/2024 with DMY…)
+      days = dates ? dates.slice() : new Float64Array(n).fill(NaN);
+      for (let i = 0; i < n; i++) {
+        const t = texts[i];
+        if (t === undefined) continue;
+        const day = readPeriod(t, dateOrder);
+        if (day !== day) {
+          all = false;
+          break;
+        }
+        days[i] = day;
+        if (day < lo) lo = day;
+        if (day > hi) hi = day;
       }
-      days[i] = day;
-      if (day < lo) lo = day;
-      if (day > hi) hi = day;
     }
-    if (all) {
+    if (all && days) {
       kind = "period";
       firstPeriod = isoDate(lo);
       lastPeriod = isoDate(hi);
       store.periodDays![j] = days;
     }
   }
+  textCount += dateCount;
   const sample: string[] = [];
   const seen = new Set<string>();
   for (let i = 0; i < n && sample.length < 5 && i < 10_000; i++) {
     const x = values[i];
-    const s = x === x ? String(x) : texts?.[i];
+    const s = x === x ? String(x) : cellText(store, j, i);
     if (s !== undefined && !seen.has(s)) {
       seen.add(s);
       sample.push(preview(s, 60));

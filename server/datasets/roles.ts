@@ -2,7 +2,7 @@ import "server-only";
 import { z } from "zod";
 import { preview, readCell, readPeriod, type DateOrder } from "./cells";
 import { defaultReadLimits } from "./csv-reader";
-import type { ColumnProfile, ColumnStore } from "./inspect";
+import { cellText, type ColumnProfile, type ColumnStore } from "./inspect";
 import { DEFAULT_PROBLEM_LIMIT, type ProblemList } from "./problems";
 
 /**
@@ -179,10 +179,10 @@ export function checkRoles(
   for (const j of numericColumns) {
     const role = resolved[j].role;
     const values = store.values[j];
-    const texts = store.texts[j];
     const profile = columns[j];
     if (profile.numericCount === 0) {
-      const first = texts?.find((t) => t !== undefined);
+      let first: string | undefined;
+      for (let i = 0; i < n && first === undefined; i++) first = cellText(store, j, i);
       problems.add({
         kind: "non-numeric",
         message:
@@ -198,7 +198,7 @@ export function checkRoles(
     for (let i = 0; i < n; i++) {
       const x = values[i];
       if (x !== x) {
-        const text = texts?.[i];
+        const text = cellText(store, j, i);
         if (text === undefined) {
           missingCell(i, j);
           continue;
@@ -233,6 +233,7 @@ export function checkRoles(
     const j = period[0];
     const values = store.values[j];
     const texts = store.texts[j];
+    const dates = store.dates?.[j] ?? null;
     const numeric = columns[j].kind === "numeric";
     const cached = store.periodDateOrder === dateOrder ? store.periodDays?.[j] : null;
     const keys = new Float64Array(n).fill(NaN);
@@ -242,6 +243,8 @@ export function checkRoles(
       let key = NaN;
       if (numeric) {
         if (x === x && Number.isInteger(x)) key = x;
+      } else if (dates !== null && dates[i] === dates[i]) {
+        key = dates[i];
       } else if (text !== undefined) {
         key = cached ? cached[i] : readPeriod(text, dateOrder);
       }
@@ -293,7 +296,7 @@ export function checkRoles(
           firstRowOf.set(key, i);
           continue;
         }
-        const shown = texts?.[i] ?? String(values[i]);
+        const shown = cellText(store, j, i) ?? String(values[i]);
         problems.add({
           kind: "duplicate-period",
           message: `Row ${i + 1}, column ${j + 1} “${names[j]}”: the period “${preview(shown)}” is also in row ${first + 1}; each period must appear once.`,

@@ -1,7 +1,8 @@
 // The numeric and period rules of a cell, decided once for every upload (server/datasets/cells.ts).
 import fc from "fast-check";
 import { describe, expect, it } from "vitest";
-import { cellKind, dayNumber, fastNumber, isoDate, readCell, readPeriod } from "@/server/datasets/cells";
+import { canonicalIsoDay, cellKind, dayNumber, fastNumber, isoDate, readCell, readPeriod, writeIsoDate } from "@/server/datasets/cells";
+import { cellText } from "@/server/datasets/inspect";
 import { checkCsv } from "@/server/datasets/pipeline";
 import { chunked } from "./helpers";
 
@@ -110,7 +111,7 @@ describe("the reader's hot path (inlined in inspect.ts)", () => {
         kept.forEach((c, i) => {
           const reading = readCell(c);
           const x = store.values[0][i];
-          const t = store.texts[0]?.[i];
+          const t = cellText(store, 0, i);
           if (reading.kind === "number") expect(Object.is(x, reading.value) || (x === 0 && reading.value === 0)).toBe(true);
           else expect(x).toBeNaN();
           if (reading.kind === "number" || reading.kind === "missing") expect(t).toBeUndefined();
@@ -147,6 +148,13 @@ describe("periods", () => {
     },
   );
 
+  it("takes only exact YYYY-MM-DD cells as canonical dates", () => {
+    for (const cell of ["2024-1-05", "2024-01-5 ", " 2024-01-05", "2024/01/05", "2024-02-30", "20240-1-05", "2024-0a-05", "-024-01-05"]) {
+      expect(canonicalIsoDay(cell)).toBeNaN();
+    }
+    expect(isoDate(canonicalIsoDay("0001-01-01"))).toBe("0001-01-01");
+  });
+
   it("reads day-first and month-first dates only when told", () => {
     expect(isoDate(readPeriod("31/01/2024", "DMY"))).toBe("2024-01-31");
     expect(isoDate(readPeriod("31.01.2024", "DMY"))).toBe("2024-01-31");
@@ -162,6 +170,10 @@ describe("periods", () => {
         expect(isoDate(day)).toBe(iso);
         expect(dayNumber(+iso.slice(0, 4), +iso.slice(5, 7), +iso.slice(8, 10))).toBe(day);
         expect(readPeriod(iso)).toBe(day);
+        expect(canonicalIsoDay(iso)).toBe(day);
+        const bytes = new Uint8Array(12);
+        writeIsoDate(bytes, 1, day);
+        expect(Buffer.from(bytes.subarray(1, 11)).toString("latin1")).toBe(iso);
       }),
       { numRuns: 2000 },
     );

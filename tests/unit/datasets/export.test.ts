@@ -2,6 +2,7 @@
 import fc from "fast-check";
 import { describe, expect, it } from "vitest";
 import { csvLines, escapeCsvCell, toCsv } from "@/server/datasets/csv-export";
+import { cellText } from "@/server/datasets/inspect";
 import { checkCsv } from "@/server/datasets/pipeline";
 import { chunked } from "./helpers";
 
@@ -76,7 +77,7 @@ describe("toCsv", () => {
         expected.forEach((r, i) => {
           r.forEach((c, j) => {
             const x = store.values[j][i];
-            const t = store.texts[j]?.[i];
+            const t = cellText(store, j, i);
             const got = Number.isNaN(x) ? (t ?? "") : String(x);
             expect(got).toBe(c);
           });

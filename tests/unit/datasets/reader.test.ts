@@ -4,6 +4,7 @@ import { Readable } from "node:stream";
 import fc from "fast-check";
 import { describe, expect, it } from "vitest";
 import { detectDelimiter } from "@/server/datasets/csv-reader";
+import { cellText } from "@/server/datasets/inspect";
 import { checkCsv } from "@/server/datasets/pipeline";
 import { OPTIONS, csv, malformedCases, validVariants } from "@/tests/fixtures/csv/cases";
 import { allShapes, bytesOf, chunked, splitAt } from "./helpers";
@@ -22,7 +23,7 @@ const snapshot = async (source: AsyncIterable<Uint8Array>, options: object, chun
     rows: r.store.rowCount,
     lines: Array.from(r.store.lines),
     values: r.store.values.map((v) => Array.from(v).map((x) => (Number.isNaN(x) ? null : x))),
-    texts: r.store.texts.map((t) => (t ? Array.from({ length: r.store.rowCount }, (_, i) => t[i] ?? null) : null)),
+    texts: r.store.names.map((_, j) => Array.from({ length: r.store.rowCount }, (_, i) => cellText(r.store, j, i) ?? null)),
     sha256: r.file.sha256,
   };
 };

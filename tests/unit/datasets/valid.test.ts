@@ -2,6 +2,7 @@
 // dates, ISO weeks, multi-line text cells) reads to the same numbers, in any chunking.
 import { createHash } from "node:crypto";
 import { describe, expect, it } from "vitest";
+import { cellText } from "@/server/datasets/inspect";
 import { checkCsv } from "@/server/datasets/pipeline";
 import { OPTIONS, ROWS, validVariants } from "@/tests/fixtures/csv/cases";
 import { bytesOf, chunked } from "./helpers";
@@ -46,6 +47,10 @@ describe("valid variants", () => {
     expect(Array.from(m.store.lines)).toEqual([2, 3, 4, 6, 7, 8, 9, 10]);
     expect(m.store.texts[5]?.[2]).toBe('promo, "big"\nweek');
     expect(m.columns[5].kind).toBe("text");
+    // YYYY-MM-DD cells are held as day numbers, and read back as the same text
+    expect(m.store.texts[0]).toBeNull();
+    expect(m.store.dates?.[0]?.[0]).toBe(Date.UTC(2024, 0, 1) / 86_400_000);
+    expect(cellText(m.store, 0, 0)).toBe("2024-01-01");
   });
 
   it("profiles columns: min, max, mean, std, missing, sample, period range", async () => {
