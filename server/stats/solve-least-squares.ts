@@ -125,7 +125,7 @@ export interface LeastSquaresSolution {
  * @throws "fitLeastSquares requires more observations (n = 3) than terms (p = 3)" and similar
  *   messages for non-finite values, a constant outcome, or a design with no non-zero column.
  * Cost: 2n(p + 1)² flops for the QR (the only full pass over the data when refinement is not needed), plus about 55np flops per refinement step and 12.5np² for
- *   the Gram matrix when refinement runs; memory (p + 1) × 1,024 doubles beyond the data
+ *   the Gram matrix when refinement runs; memory (p + 1) × 4,096 doubles beyond the data
  *   (plus 2n for double-double residuals when refining).
  */
 export function solveLeastSquares(design: Design, options: SolveOptions = {}, caller = "solveLeastSquares"): LeastSquaresSolution {
