@@ -16,8 +16,11 @@ function describe(error: Error): string {
     const cause: unknown = inner.cause;
     inner = typeof cause === "object" && cause && "err" in cause ? (cause as { err: unknown }).err : cause;
   }
-  const line = inner instanceof Error ? `${inner.name}: ${inner.message.split("\n")[0]}` : "";
-  return `${error.name}${line && !line.includes("Failed query") ? ` (${line.slice(0, 200)})` : ""}`;
+  // Auth.js errors carry their kind in `type` (class names are minified in production builds).
+  const kind = (e: Error) => (e as { type?: string }).type ?? e.name;
+  const line = inner instanceof Error && inner !== error ? `${kind(inner)}: ${inner.message.split("\n")[0]}` : "";
+  const own = error.message.split("\n")[0].replace(/\s*Read more at \S+/, "");
+  return `${kind(error)}: ${own.slice(0, 200)}${line && !line.includes("Failed query") ? ` (${line.slice(0, 200)})` : ""}`;
 }
 
 export const authConfig = {
