@@ -73,11 +73,11 @@ async function freePort(): Promise<string> {
   return String(port);
 }
 
-/** CPU seconds used so far by a PostgreSQL cluster: its postmaster and every child (backends, WAL writer…). */
-function clusterCpu(dataDir: string): number {
+/** CPU seconds used so far by each process of a PostgreSQL cluster: its postmaster and every child. */
+function clusterCpu(dataDir: string): Map<number, number> {
   const postmaster = Number(readFileSync(join(dataDir, "postmaster.pid"), "utf8").split("\n")[0]);
   const ticks = Number(execFileSync("getconf", ["CLK_TCK"]).toString().trim()) || 100;
-  let total = 0;
+  const out = new Map<number, number>();
   for (const entry of readdirSync("/proc")) {
     if (!/^\d+$/.test(entry)) continue;
     let stat: string;
@@ -88,8 +88,15 @@ function clusterCpu(dataDir: string): number {
     }
     const fields = stat.slice(stat.lastIndexOf(")") + 2).split(" ");
     const ppid = Number(fields[1]);
-    if (Number(entry) === postmaster || ppid === postmaster) total += (Number(fields[11]) + Number(fields[12])) / ticks;
+    if (Number(entry) === postmaster || ppid === postmaster) out.set(Number(entry), (Number(fields[11]) + Number(fields[12])) / ticks);
   }
+  return out;
+}
+
+/** CPU used between two snapshots by the processes alive at the second (exited ones were idle connections). */
+function cpuBetween(before: Map<number, number>, after: Map<number, number>): number {
+  let total = 0;
+  for (const [pid, cpu] of after) total += cpu - (before.get(pid) ?? 0);
   return total;
 }
 
@@ -208,10 +215,10 @@ async function main() {
     /** Runs a measurement and notes the CPU seconds it took in this process and in PostgreSQL. */
     const withCpu = async (which: "ours" | "raw", run: () => Promise<number>) => {
       const node0 = process.cpuUsage();
-      const pg0 = cluster ? clusterCpu(cluster.dataDir) : 0;
+      const pg0 = cluster ? clusterCpu(cluster.dataDir) : null;
       const seconds = await run();
       const node = process.cpuUsage(node0);
-      const pg = cluster ? clusterCpu(cluster.dataDir) - pg0 : Number.NaN;
+      const pg = cluster && pg0 ? cpuBetween(pg0, clusterCpu(cluster.dataDir)) : Number.NaN;
       await cleanup();
       cleanup = async () => {};
       cpu[which].push(`CPU node ${((node.user + node.system) / 1e6).toFixed(1)} s + PostgreSQL ${Number.isNaN(pg) ? "?" : pg.toFixed(1)} s`);
@@ -235,6 +242,8 @@ async function main() {
     const r = ROWS / median(raw);
     console.log(`median of ${ROUNDS}: end to end ${fmt(o)} rows/s, raw COPY ${fmt(r)} rows/s, ratio ${((100 * o) / r).toFixed(0)}% (target ≥ 60%)`);
     console.log(`load average after: ${loadavg().map((x) => x.toFixed(2)).join(" ")}`);
+    // `--json`: one machine-readable line for `npm run bench` (bench/index.ts).
+    if (process.argv.includes("--json")) console.log(JSON.stringify({ rows: ROWS, rounds: ROUNDS, endToEndRowsPerSecond: o, rawCopyRowsPerSecond: r, ratio: o / r }));
 
     await admin`delete from workspaces where id = ${workspace.id}`;
     await admin.end();

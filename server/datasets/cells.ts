@@ -175,24 +175,25 @@ export function isoDate(day: number): string {
 
 /** Writes the ISO date (YYYY-MM-DD, years 0-9999) of a day number as 10 ASCII bytes at `at`. */
 export function writeIsoDate(out: Uint8Array, at: number, day: number): void {
+  // civil-from-days with integer division (z >= 0 for years >= 0, so truncation is floor)
   const z = day + 719468;
-  const era = Math.floor(z / 146097);
+  const era = (z / 146097) | 0;
   const doe = z - era * 146097;
-  const yoe = Math.floor((doe - Math.floor(doe / 1460) + Math.floor(doe / 36524) - Math.floor(doe / 146096)) / 365);
-  const doy = doe - (365 * yoe + Math.floor(yoe / 4) - Math.floor(yoe / 100));
-  const mp = Math.floor((5 * doy + 2) / 153);
-  const d = doy - Math.floor((153 * mp + 2) / 5) + 1;
+  const yoe = ((doe - ((doe / 1460) | 0) + ((doe / 36524) | 0) - ((doe / 146096) | 0)) / 365) | 0;
+  const doy = doe - (365 * yoe + ((yoe / 4) | 0) - ((yoe / 100) | 0));
+  const mp = ((5 * doy + 2) / 153) | 0;
+  const d = doy - (((153 * mp + 2) / 5) | 0) + 1;
   const m = mp < 10 ? mp + 3 : mp - 9;
   const y = yoe + era * 400 + (m <= 2 ? 1 : 0);
-  out[at] = 48 + Math.floor(y / 1000);
-  out[at + 1] = 48 + (Math.floor(y / 100) % 10);
-  out[at + 2] = 48 + (Math.floor(y / 10) % 10);
+  out[at] = 48 + ((y / 1000) | 0);
+  out[at + 1] = 48 + (((y / 100) | 0) % 10);
+  out[at + 2] = 48 + (((y / 10) | 0) % 10);
   out[at + 3] = 48 + (y % 10);
   out[at + 4] = 45;
-  out[at + 5] = 48 + Math.floor(m / 10);
+  out[at + 5] = 48 + ((m / 10) | 0);
   out[at + 6] = 48 + (m % 10);
   out[at + 7] = 45;
-  out[at + 8] = 48 + Math.floor(d / 10);
+  out[at + 8] = 48 + ((d / 10) | 0);
   out[at + 9] = 48 + (d % 10);
 }
 
