@@ -639,8 +639,115 @@ const scenarios: Section = {
   },
 };
 
+// ---------------------------------------------------------------------------------------------
+// Suggested split (issue 7)
+
+const suggestions: Section = {
+  tag: {
+    name: "Suggested split",
+    description:
+      "The allocation an approved fit predicts does best for a plan, under its total, locks and bounds and inside the data the fit has seen. Nothing is saved: the planner saves a version. A fit of past spend is not proof that moving money causes the gain; test the shift on part of the budget first. Response curves are computed in the browser from the fit record (no route).",
+  },
+  schemas: {
+    SuggestRequest: {
+      type: "object",
+      required: ["allocation", "horizon"],
+      properties: {
+        ...planProperties,
+        level: { type: "number", exclusiveMinimum: 0.5, exclusiveMaximum: 1, description: "Confidence level of every interval; default the fit's (0.95)." },
+        mode: { type: "string", enum: ["fixed", "growing"], default: "fixed", description: "fixed: spend exactly the total; growing: any total up to `ceiling` (less when more spend is not predicted to pay)." },
+        total: { type: "number", minimum: 0, description: "Fixed mode: default the sum of `allocation`; when given it must equal that sum (±0.01)." },
+        ceiling: { type: "number", minimum: 0, description: "Growing mode (required there): the most the plan may spend, at least the sum of `allocation`." },
+        locks: { type: "array", items: { type: "string" }, description: "Channels held at their current amount." },
+        floors: amounts("Per channel: the least it may get over the horizon."),
+        ceilings: amounts("Per channel: the most it may get over the horizon."),
+        keepInsideObservedRange: { type: "boolean", default: true, description: "Each channel within the spend per period the fit saw (× horizon)." },
+        keepInsideHull: {
+          type: "boolean",
+          default: true,
+          description: "Every period's leverage at most the largest in the history (no unseen combination). If no plan can meet it with the other rules, the answer says so (`hull.status: unreachable`).",
+        },
+      },
+      example: {
+        allocation: { search_eur: 260000, social_eur: 130000, video_eur: 143000, display_eur: 91000, podcast_eur: 65000, email_eur: 31200 },
+        controls: { promo_week: 2 },
+        horizon: 13,
+        mode: "fixed",
+        locks: ["email_eur"],
+        floors: { podcast_eur: 40000 },
+      },
+    },
+    Suggestion: {
+      type: "object",
+      required: ["allocation", "prediction", "current", "gain", "binding", "method", "notes", "caution"],
+      properties: {
+        fitId: { type: "string", format: "uuid" },
+        allocation: amounts("Suggested spend per channel for the horizon (whole cents)."),
+        total: { type: "number" },
+        channels: {
+          type: "array",
+          items: {
+            type: "object",
+            properties: { name: { type: "string" }, label: { type: "string" }, amount: { type: "number" }, current: { type: "number" }, change: { type: "number" }, locked: { type: "boolean" } },
+          },
+        },
+        prediction: { ...ref("Prediction"), description: "The suggested plan exactly as POST /predict answers it, with `difference` from the current plan." },
+        current: interval("The current plan's horizon total."),
+        gain: {
+          type: "object",
+          description: "Suggested minus current expected total, with the confidence interval of the difference (from the fit's covariance, not from the two intervals).",
+          properties: { mean: { type: "number" }, confidence: { type: "array", items: { type: "number" }, minItems: 2, maxItems: 2 } },
+        },
+        level: { type: "number" },
+        binding: {
+          type: "array",
+          description: "Constraints the suggestion stands against, in plain words.",
+          items: {
+            type: "object",
+            required: ["kind", "message"],
+            properties: {
+              kind: { type: "string", enum: ["locked", "floor", "ceiling", "observed-min", "observed-max", "zero", "total-fixed", "total-ceiling", "hull"] },
+              channel: { type: "string" },
+              message: { type: "string" },
+            },
+          },
+        },
+        method: { type: "string", enum: ["exact", "local"], description: "exact: the best plan under the constraints; local: the best of several local searches (the problem is not concave), not guaranteed best." },
+        starts: { type: ["integer", "null"], description: "For method local: how many starts." },
+        solver: { type: "string", enum: ["linear-programme", "water-filling", "barrier", "multi-start-barrier", "none"] },
+        converged: { type: "boolean" },
+        hull: {
+          type: "object",
+          properties: { status: { type: "string", enum: ["kept", "off", "unreachable"] }, binding: { type: "boolean" }, leverage: { type: "number" }, maxTrainingLeverage: { type: "number" } },
+        },
+        notes: { type: "array", items: { type: "string" } },
+        caution: { type: "string" },
+      },
+    },
+  },
+  paths: {
+    "/api/fits/{id}/suggest": {
+      post: {
+        tags: ["Suggested split"],
+        summary: "Suggest the split of a plan's budget the fit predicts does best",
+        description:
+          "Roles with fit:predict (planners, analysts, reviewers). Linear fits are solved exactly (a linear programme; a convex solve when the hull binds); concave log terms by KKT water-filling; interactions by a multi-start local method, labelled `local`. Nothing is saved.",
+        parameters: [idParameter("fit")],
+        requestBody: { required: true, ...jsonBody(ref("SuggestRequest")) },
+        responses: {
+          "200": jsonBody(ref("Suggestion"), "The suggested allocation, its prediction, gain, binding constraints, method and caution."),
+          "404": error("No such fit in this workspace."),
+          "409": error("The fit is not approved (or was retired)."),
+          "422": error("Invalid plan or rules, or no plan meets them (e.g. floors above the total, a total the channels cannot take inside their observed ranges); `details` name the field."),
+          ...commonErrors,
+        },
+      },
+    },
+  },
+};
+
 /** Areas in the order the documentation lists them; add yours here. */
-const sections: Section[] = [fits, scenarios, jobs];
+const sections: Section[] = [fits, scenarios, suggestions, jobs];
 
 export const openApiDocument = {
   openapi: "3.1.0",

@@ -127,6 +127,7 @@ const routes: RouteCase[] = [
     path: async (fx) => `/api/fits/${await fx.fitId("approved")}/predict`,
     body: { allocation: Object.fromEntries(demoChannels.map((c) => [c.column, 40_000])), controls: { [demoControl.column]: 2 }, horizon: 13 },
   },
+  { method: "POST", route: "/api/fits/[id]/suggest", who: ["analyst", "reviewer", "planner"], ok: 200, path: async (fx) => `/api/fits/${await fx.fitId("approved")}/suggest`, body: { allocation: Object.fromEntries(demoChannels.map((c) => [c.column, 40_000])), controls: { [demoControl.column]: 2 }, horizon: 13 } },
   { method: "POST", route: "/api/fits/[id]/retire", who: ["analyst", "reviewer"], ok: 200, path: async (fx, caller) => `/api/fits/${await fx.newDraftFitId(larkspurMember(caller))}/retire`, body: {} },
   // The approved demo fit cannot be approved again: allowed reviewers get 409, and it stays as it is.
   { method: "POST", route: "/api/fits/[id]/review", who: ["reviewer"], ok: 409, path: async (fx) => `/api/fits/${await fx.fitId("approved")}/review`, body: { decision: "approve" } },
