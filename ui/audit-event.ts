@@ -40,6 +40,10 @@ export function describeAuditEvent(event: Pick<AuditEventDto, "action" | "detail
       return `requested changes to the fit “${str(d.name)}”`;
     case "fit.retired":
       return `retired the fit “${str(d.name)}”`;
+    case "dataset.uploaded":
+      return `uploaded the spend history “${str(d.name)}” (${typeof d.rows === "number" ? d.rows.toLocaleString("en") : "?"} rows, ${str(d.filename)})`;
+    case "dataset.roles_assigned":
+      return `chose the column roles of “${str(d.name)}” (outcome ${str(d.outcome) || "—"}, ${Array.isArray(d.spend) ? d.spend.length : 0} spend channels${typeof d.droppedRows === "number" && d.droppedRows > 0 ? `, ${d.droppedRows} incomplete rows left out` : ""})`;
     default:
       return `${event.action.replace(/[._]/g, " ")}`;
   }

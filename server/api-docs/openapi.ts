@@ -55,7 +55,7 @@ const shared: Json = {
         type: ["object", "null"],
         properties: { phase: { type: "string" }, done: { type: "number" }, total: { type: ["number", "null"] }, message: { type: "string" } },
       },
-      result: { type: ["object", "null"], description: "For fit.run: `{ fitId, n, rSquared }`.", additionalProperties: true },
+      result: { type: ["object", "null"], description: "For fit.run: `{ fitId, n, rSquared }`; for dataset.ingest: `{ datasetId, name, status, rowCount, columnCount, sha256, notes }`.", additionalProperties: true },
       error: {
         type: ["object", "null"],
         properties: { message: { type: "string" }, details: { type: "array", items: { type: "object" } } },
@@ -746,8 +746,310 @@ const suggestions: Section = {
   },
 };
 
+// ---------------------------------------------------------------------------------------------
+// Spend histories (datasets)
+
+const datasetIdParameter = idParameter("spend history");
+const uploadQueryParameters = [
+  { name: "filename", in: "query", required: false, description: "The file's name, for a raw body (or the `X-Filename` header, URI-encoded). Default `upload.csv`.", schema: { type: "string" } },
+  { name: "name", in: "query", required: false, description: "Display name (default: the file name without extension).", schema: { type: "string", maxLength: 200 } },
+  { name: "options", in: "query", required: false, description: "Upload options as JSON (see `UploadOptions`), e.g. the roles to check them in one step.", schema: { type: "string" } },
+  { name: "background", in: "query", required: false, description: "`1` to have the worker check and store even a small file (202 with a job).", schema: { type: "string", enum: ["1", "true"] } },
+];
+
+const datasets: Section = {
+  tag: {
+    name: "Spend histories",
+    description:
+      "Uploaded CSV histories (periods × spend per channel, controls, outcome); `dataset` in the API. Two steps: the upload stores the file when every row can be read (phase 1: header, ragged rows, UTF-8, size…), then the roles (outcome, spend, control, period, ignored, with units) are checked against the rows (numbers, negative spend, missing values, constant columns, enough rows) and the history becomes `ready` for fits. Roles may also come with the upload. Nothing is stored from a refused file: every problem is listed with its row and column.",
+  },
+  schemas: {
+    DatasetColumn: {
+      type: "object",
+      description: "A column: its role and unit (null until chosen) and its profile over every stored row.",
+      properties: {
+        position: { type: "integer", description: "1-based column number." },
+        name: { type: "string" },
+        kind: { type: "string", enum: ["numeric", "period", "text"], description: "What phase 1 found: numbers only, dates only, or anything else." },
+        role: { type: ["string", "null"], enum: ["outcome", "spend", "control", "period", "ignored", null] },
+        unit: { type: ["string", "null"], description: "An ISO 4217 currency code for money, or a unit such as `orders`, `weeks`." },
+        numericCount: { type: "integer" },
+        textCount: { type: "integer", description: "Cells that are not numbers (and not missing)." },
+        missingCount: { type: "integer", description: "Empty cells (and NA, null, …)." },
+        min: nullableNumber,
+        max: nullableNumber,
+        mean: nullableNumber,
+        std: { ...nullableNumber, description: "Sample standard deviation." },
+        firstPeriod: { type: ["string", "null"], format: "date" },
+        lastPeriod: { type: ["string", "null"], format: "date" },
+        sample: { type: "array", items: { type: "string" }, maxItems: 5 },
+      },
+    },
+    DatasetSummary: {
+      type: "object",
+      properties: {
+        id: { type: "string", format: "uuid" },
+        name: { type: "string" },
+        originalFilename: { type: "string" },
+        byteSize: { type: "integer" },
+        sha256: { type: "string", pattern: "^[0-9a-f]{64}$", description: "Of the original file, byte for byte." },
+        rowCount: { type: "integer" },
+        columnCount: { type: "integer" },
+        delimiter: { type: "string", enum: [",", ";", "\t"] },
+        hasBom: { type: "boolean" },
+        lineEnding: { type: "string", enum: ["lf", "crlf", "cr"] },
+        status: { type: "string", enum: ["needs-roles", "ready"] },
+        missingPolicy: { type: "string", enum: ["reject", "drop-incomplete-rows"] },
+        droppedRowCount: { type: "integer", description: "Rows left out of fits by drop-incomplete-rows (they stay stored)." },
+        dateOrder: { type: "string", enum: ["YMD", "DMY", "MDY"] },
+        uploadedBy: { type: ["string", "null"] },
+        uploadedAt: { type: "string", format: "date-time" },
+        rolesAssignedBy: { type: ["string", "null"] },
+        rolesAssignedAt: { type: ["string", "null"], format: "date-time" },
+        links: {
+          type: "object",
+          properties: { self: { type: "string" }, rows: { type: "string" }, correlations: { type: "string" }, roles: { type: "string" }, file: { type: "string" }, export: { type: "string" }, page: { type: "string" } },
+        },
+      },
+    },
+    Dataset: {
+      allOf: [
+        ref("DatasetSummary"),
+        {
+          type: "object",
+          properties: {
+            columns: { type: "array", items: ref("DatasetColumn") },
+            notes: {
+              type: "array",
+              description: "Facts that did not block the upload (blank lines skipped, incomplete rows dropped, same file uploaded before, periods not ascending).",
+              items: { type: "object", properties: { kind: { type: "string" }, message: { type: "string" }, count: { type: "integer" } } },
+            },
+          },
+        },
+      ],
+      example: {
+        id: "5b0f3c1e-2a8d-4d7e-9a51-3f2b7e1c9d40",
+        name: "Larkspur weekly history",
+        originalFilename: "larkspur-weekly-history.csv",
+        rowCount: 156,
+        columnCount: 9,
+        status: "needs-roles",
+        sha256: "f8aa0045de0c29ee73b738d9453f144cdbf672afe243603139fbe9c70af2810f",
+        columns: [{ position: 9, name: "sales_eur", kind: "numeric", role: null, unit: null, numericCount: 156, textCount: 0, missingCount: 0, min: 207158, max: 350695, mean: 274854.2, std: 27829.1 }],
+      },
+    },
+    RoleAssignment: {
+      type: "object",
+      description: "Roles by column name (exact, else ignoring case); columns not named are ignored. Exactly one outcome, at least one spend, at most one period.",
+      additionalProperties: {
+        type: "object",
+        required: ["role"],
+        additionalProperties: false,
+        properties: { role: { type: "string", enum: ["outcome", "spend", "control", "period", "ignored"] }, unit: { type: "string", maxLength: 32 } },
+      },
+      example: { week_start: { role: "period" }, sales_eur: { role: "outcome", unit: "EUR" }, search_eur: { role: "spend", unit: "EUR" }, promo_week: { role: "control", unit: "weeks" } },
+    },
+    UploadOptions: {
+      type: "object",
+      additionalProperties: false,
+      properties: {
+        roles: ref("RoleAssignment"),
+        missingPolicy: { type: "string", enum: ["reject", "drop-incomplete-rows"], default: "reject", description: "Empty cells in used columns: reject (each reported), or leave those rows out of fits (counted)." },
+        minRows: { type: "integer", minimum: 1, description: "Fewest usable rows; default terms + 2." },
+        dateOrder: { type: "string", enum: ["YMD", "DMY", "MDY"], default: "YMD", description: "How to read dates such as 03/01/2024 (ISO dates always work)." },
+      },
+    },
+    AssignRolesRequest: {
+      type: "object",
+      required: ["roles"],
+      additionalProperties: false,
+      properties: {
+        roles: ref("RoleAssignment"),
+        missingPolicy: { type: "string", enum: ["reject", "drop-incomplete-rows"] },
+        minRows: { type: "integer", minimum: 1 },
+        dateOrder: { type: "string", enum: ["YMD", "DMY", "MDY"] },
+      },
+    },
+    UploadProblems: {
+      allOf: [ref("Error")],
+      description:
+        "A refused file: `error` summarises (\"The file was not stored: 2 problems (non-numeric cell, negative spend).\"); each detail has `kind`, `message`, `path`, and where it applies `row` (1-based data row), `line` (file line), `column` (the column's name), `columnNumber`, `value`, `byteOffset`. The first 200 are listed; a last detail of kind `omitted` counts the rest.",
+      example: {
+        error: "The file was not stored: 1 problem (negative spend).",
+        details: [{ kind: "negative-spend", path: "file", row: 7, line: 8, column: "search_eur", columnNumber: 2, value: "-40", message: "Row 7, column 2 “search_eur”: spend is negative (-40)." }],
+      },
+    },
+    RowsPage: {
+      type: "object",
+      properties: {
+        datasetId: { type: "string", format: "uuid" },
+        total: { type: "integer" },
+        offset: { type: "integer" },
+        limit: { type: "integer" },
+        columns: { type: "array", items: { type: "object", properties: { position: { type: "integer" }, name: { type: "string" }, kind: { type: "string" }, role: { type: ["string", "null"] } } } },
+        rows: {
+          type: "array",
+          items: {
+            type: "object",
+            properties: {
+              rowNumber: { type: "integer" },
+              line: { type: "integer" },
+              cells: { type: "array", items: { type: ["number", "string", "null"] }, description: "In column order: the number, else the text, null when empty." },
+            },
+          },
+        },
+      },
+    },
+    CorrelationMatrix: {
+      type: "object",
+      properties: {
+        datasetId: { type: "string", format: "uuid" },
+        n: { type: "integer", description: "Complete rows used (those a fit would use)." },
+        columns: { type: "array", items: { type: "object", properties: { position: { type: "integer" }, name: { type: "string" }, role: { type: ["string", "null"] } } } },
+        matrix: { type: "array", items: { type: "array", items: nullableNumber }, description: "Pearson correlations; null where a column does not vary." },
+      },
+    },
+  },
+  paths: {
+    "/api/datasets": {
+      get: {
+        tags: ["Spend histories"],
+        summary: "List spend histories",
+        description: "Permission dataset:read. Newest upload first.",
+        parameters: [
+          { name: "limit", in: "query", required: false, schema: { type: "integer", minimum: 1, maximum: 500, default: 50 } },
+          { name: "offset", in: "query", required: false, schema: { type: "integer", minimum: 0, default: 0 } },
+        ],
+        responses: {
+          "200": jsonBody({ type: "object", properties: { datasets: { type: "array", items: ref("DatasetSummary") }, limit: { type: "integer" }, offset: { type: "integer" } } }, "The histories."),
+          "422": error("Invalid limit or offset."),
+          ...commonErrors,
+        },
+      },
+      post: {
+        tags: ["Spend histories"],
+        summary: "Upload a spend history (CSV)",
+        description:
+          "Permission dataset:upload. Send the file either as **multipart/form-data** (field `file`; optional fields `name` and `options`, JSON, which must come *before* the file) or as the **raw body** with `Content-Type: text/csv` and `?filename=`. Both are streamed, never buffered whole; up to 200 MB. Comma, semicolon or tab; header row; optional UTF-8 BOM; quoted fields.\n\n" +
+          "Files up to 5 MB are checked and stored in the request: **201** with the history (id, rowCount, every column's profile) or **422** with every problem. Larger files (or `?background=1`, or no Content-Length) are streamed into PostgreSQL staging while a `dataset.ingest` job in a worker checks and stores them: **202** with the job; poll `GET /api/jobs/{id}` until `succeeded` (`result.datasetId`) or `failed` (`error` carries the same problem details). Nothing of a refused or interrupted upload is stored.\n\n" +
+          "Example: `curl -H 'Authorization: Bearer trib_…' -F 'options={\"missingPolicy\":\"reject\"}' -F file=@history.csv https://…/api/datasets`",
+        parameters: uploadQueryParameters,
+        requestBody: {
+          required: true,
+          content: {
+            "multipart/form-data": {
+              schema: {
+                type: "object",
+                required: ["file"],
+                properties: {
+                  name: { type: "string", maxLength: 200 },
+                  options: { type: "string", description: "`UploadOptions` as JSON." },
+                  file: { type: "string", format: "binary" },
+                },
+              },
+              encoding: { file: { contentType: "text/csv" } },
+            },
+            "text/csv": { schema: { type: "string", format: "binary" } },
+          },
+        },
+        responses: {
+          "201": jsonBody(ref("Dataset"), "Stored (status `needs-roles`, or `ready` when roles came with it)."),
+          "202": jsonBody(
+            { type: "object", properties: { job: ref("Job"), upload: { type: "object", properties: { id: { type: "string", format: "uuid" }, receivedBytes: { type: "integer" } } } } },
+            "Large file received; the worker checks and stores it: poll the job.",
+          ),
+          "413": jsonBody(ref("UploadProblems"), "Over the size limit (detail kind `file-too-large`)."),
+          "422": jsonBody(ref("UploadProblems"), "The file has problems (each with row and column), malformed options or form, another content type, or the body ended before its Content-Length."),
+          ...commonErrors,
+        },
+      },
+    },
+    "/api/datasets/{id}": {
+      get: {
+        tags: ["Spend histories"],
+        summary: "A spend history with its columns",
+        description: "Permission dataset:read. Also who uploaded it and chose its roles, and the fits built on it.",
+        parameters: [datasetIdParameter],
+        responses: {
+          "200": jsonBody(
+            { allOf: [ref("Dataset"), { type: "object", properties: { uploadedByName: { type: ["string", "null"] }, rolesAssignedByName: { type: ["string", "null"] }, fits: { type: "array", items: { type: "object" } } } }] },
+            "The history.",
+          ),
+          "404": error("No such spend history in this workspace."),
+          ...commonErrors,
+        },
+      },
+    },
+    "/api/datasets/{id}/roles": {
+      put: {
+        tags: ["Spend histories"],
+        summary: "Choose the column roles",
+        description: "Permission dataset:upload. Runs the role-dependent checks on the stored rows; all pass → `ready`. Refused: nothing changes.",
+        parameters: [datasetIdParameter],
+        requestBody: { required: true, ...jsonBody(ref("AssignRolesRequest")) },
+        responses: {
+          "200": jsonBody(ref("Dataset"), "Roles recorded; the history is ready for fits."),
+          "404": error("No such spend history in this workspace."),
+          "409": error("An approved fit uses this history: its roles are frozen."),
+          "422": jsonBody(ref("UploadProblems"), "The roles do not fit the data (\"The roles were not saved: …\"), each problem with row and column."),
+          ...commonErrors,
+        },
+      },
+    },
+    "/api/datasets/{id}/rows": {
+      get: {
+        tags: ["Spend histories"],
+        summary: "A page of rows",
+        description: "Permission dataset:read. Rows `offset + 1` to `offset + limit` in file order.",
+        parameters: [
+          datasetIdParameter,
+          { name: "offset", in: "query", required: false, schema: { type: "integer", minimum: 0, default: 0 } },
+          { name: "limit", in: "query", required: false, schema: { type: "integer", minimum: 1, maximum: 1000, default: 100 } },
+        ],
+        responses: { "200": jsonBody(ref("RowsPage"), "The rows."), "404": error("No such spend history in this workspace."), "422": error("Invalid offset or limit."), ...commonErrors },
+      },
+    },
+    "/api/datasets/{id}/correlations": {
+      get: {
+        tags: ["Spend histories"],
+        summary: "Correlations of the candidate predictors",
+        description: "Permission dataset:read. Spend and control columns (every numeric column before roles), over the rows a fit would use.",
+        parameters: [datasetIdParameter],
+        responses: { "200": jsonBody(ref("CorrelationMatrix"), "The matrix."), "404": error("No such spend history in this workspace."), ...commonErrors },
+      },
+    },
+    "/api/datasets/{id}/file": {
+      get: {
+        tags: ["Spend histories"],
+        summary: "Download the original file",
+        description: "Permission dataset:read. Byte for byte as uploaded; its sha256 in `Repr-Digest` and `X-Content-SHA256`.",
+        parameters: [datasetIdParameter],
+        responses: {
+          "200": { description: "The file.", content: { "text/csv": { schema: { type: "string", format: "binary" } } } },
+          "404": error("No such spend history in this workspace."),
+          ...commonErrors,
+        },
+      },
+    },
+    "/api/datasets/{id}/export": {
+      get: {
+        tags: ["Spend histories"],
+        summary: "Export the rows as CSV",
+        description:
+          "Permission dataset:read. The stored rows with a header, in the file's delimiter. Text cells that a spreadsheet would run as a formula (starting with `=`, `+`, `-`, `@`, tab or CR) get a leading `'`; numbers, negative ones included, stay numbers.",
+        parameters: [datasetIdParameter],
+        responses: {
+          "200": { description: "The rows as CSV.", content: { "text/csv": { schema: { type: "string" } } } },
+          "404": error("No such spend history in this workspace."),
+          ...commonErrors,
+        },
+      },
+    },
+  },
+};
+
 /** Areas in the order the documentation lists them; add yours here. */
-const sections: Section[] = [fits, scenarios, suggestions, jobs];
+const sections: Section[] = [datasets, fits, scenarios, suggestions, jobs];
 
 export const openApiDocument = {
   openapi: "3.1.0",

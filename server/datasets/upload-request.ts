@@ -87,14 +87,27 @@ const cleanName = (raw: string | null | undefined) => {
   return name || null;
 };
 
+/** The connection ended before the declared Content-Length arrived: the client went away. */
+export class UploadCutShort extends Error {
+  constructor(received: number, declared: number) {
+    super(`The upload ended after ${received} of ${declared} bytes; nothing was stored.`);
+    this.name = "UploadCutShort";
+  }
+}
+
 /**
  * The request body as one shared reader: loops that stop early leave the rest unread (no cancel), so
  * `drain()` can still read it to the end and the client gets our answer rather than a reset.
  */
 class RequestBody implements AsyncIterable<Uint8Array> {
   private readonly reader: ReadableStreamDefaultReader<Uint8Array> | null;
+  private received = 0;
 
-  constructor(body: ReadableStream<Uint8Array> | null) {
+  /** `declared`: the Content-Length; a body that ends short of it was cut off (never a shorter file). */
+  constructor(
+    body: ReadableStream<Uint8Array> | null,
+    private readonly declared: number | null,
+  ) {
     this.reader = body ? body.getReader() : null;
   }
 
@@ -103,7 +116,12 @@ class RequestBody implements AsyncIterable<Uint8Array> {
       next: async () => {
         if (!this.reader) return { done: true, value: undefined };
         const { done, value } = await this.reader.read();
-        return done ? { done: true, value: undefined } : { done: false, value };
+        if (done) {
+          if (this.declared !== null && this.received < this.declared) throw new UploadCutShort(this.received, this.declared);
+          return { done: true, value: undefined };
+        }
+        this.received += value.byteLength;
+        return { done: false, value };
       },
       return: async () => ({ done: true, value: undefined }),
     };
@@ -200,7 +218,8 @@ async function openFile(request: Request, url: URL, raw: RequestBody): Promise<{
 export async function receiveDatasetUpload(actor: Actor, request: Request): Promise<UploadOutcome> {
   const url = new URL(request.url);
   const background = ["1", "true", "yes"].includes((url.searchParams.get("background") ?? "").toLowerCase());
-  const raw = new RequestBody(request.body as ReadableStream<Uint8Array> | null);
+  const declared = Number(request.headers.get("content-length") ?? NaN);
+  const raw = new RequestBody(request.body as ReadableStream<Uint8Array> | null, Number.isFinite(declared) && declared >= 0 ? declared : null);
   let opened: Awaited<ReturnType<typeof openFile>>;
   try {
     opened = await openFile(request, url, raw);
@@ -267,6 +286,7 @@ export async function receiveDatasetUpload(actor: Actor, request: Request): Prom
     return { kind: "queued", job, uploadId: upload.id, receivedBytes };
   } catch (error) {
     if (error instanceof MultipartError) throw new AppError("invalid:multipart", error.message, { details: [{ path: "body", message: error.message }] });
+    if (error instanceof UploadCutShort) throw new AppError("invalid:incomplete", error.message, { details: [{ path: "body", message: error.message }] });
     throw error;
   }
 }

@@ -54,6 +54,14 @@ type RouteCase = {
 
 const larkspurMember = (caller: Caller) => (caller.workspace === "larkspur" ? caller.email : "planner@larkspur.example");
 
+// Spend histories: the seeded demo history of Larkspur (an approved fit uses it, so its roles are frozen).
+const demoDatasetPath = async (fx: Fixtures, rest = "") => {
+  const [row] = await fx.sql<{ id: string }[]>`select id from datasets where workspace_id = ${fx.larkspurId} order by uploaded_at limit 1`;
+  if (!row) throw new Error("the seed has no spend history in larkspur");
+  return `/api/datasets/${row.id}${rest}`;
+};
+const datasetReaders = ["admin", "analyst", "reviewer"] as const;
+
 // Side by side (issue 6): one comparison of two saved versions (the matrix scenario's version 1 and
 // a second scenario's), made once through the API by the planner.
 let matrixComparison: Promise<string> | undefined;
@@ -113,6 +121,16 @@ const routes: RouteCase[] = [
   { method: "GET", route: "/api/comparisons/[id]/export.csv", who: ["admin", "planner", "finance"], ok: 200, path: async (fx) => `/api/comparisons/${await comparisonId(fx)}/export.csv` },
   { method: "GET", route: "/api/comparisons/[id]/export.pdf", who: ["admin", "planner", "finance"], ok: 200, path: async (fx) => `/api/comparisons/${await comparisonId(fx)}/export.pdf` },
   { method: "POST", route: "/api/comparisons/[id]/share", who: ["planner"], ok: 201, path: async (fx) => `/api/comparisons/${await comparisonId(fx)}/share`, body: { recipients: ["finance@larkspur.example"] } },
+  { method: "GET", route: "/api/datasets", who: datasetReaders, ok: 200 },
+  // JSON instead of a CSV: analysts reach the content check (422) and nothing is stored.
+  { method: "POST", route: "/api/datasets", who: ["analyst"], ok: 422, body: {} },
+  { method: "GET", route: "/api/datasets/[id]", who: datasetReaders, ok: 200, path: (fx) => demoDatasetPath(fx) },
+  { method: "GET", route: "/api/datasets/[id]/correlations", who: datasetReaders, ok: 200, path: (fx) => demoDatasetPath(fx, "/correlations") },
+  { method: "GET", route: "/api/datasets/[id]/export", who: datasetReaders, ok: 200, path: (fx) => demoDatasetPath(fx, "/export") },
+  { method: "GET", route: "/api/datasets/[id]/file", who: datasetReaders, ok: 200, path: (fx) => demoDatasetPath(fx, "/file") },
+  // The demo history is frozen by the approved demo fit: analysts get 409 and its roles stay as they are.
+  { method: "PUT", route: "/api/datasets/[id]/roles", who: ["analyst"], ok: [409, 422], path: (fx) => demoDatasetPath(fx, "/roles"), body: { roles: { week_start: { role: "period" } } } },
+  { method: "GET", route: "/api/datasets/[id]/rows", who: datasetReaders, ok: 200, path: (fx) => demoDatasetPath(fx, "/rows?limit=5") },
   { method: "GET", route: "/api/fits", who: ["admin", "analyst", "reviewer", "planner", "finance"], ok: 200 },
   // An empty body: allowed roles reach validation (422) and nothing is created.
   { method: "POST", route: "/api/fits", who: ["analyst"], ok: 422, body: {} },

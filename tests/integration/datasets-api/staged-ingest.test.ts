@@ -8,7 +8,7 @@ import { GET as getDataset } from "@/app/api/datasets/[id]/route";
 import { POST as upload } from "@/app/api/datasets/route";
 import { getDatabase } from "@/db/client";
 import { ingestStagedUpload } from "@/server/datasets/ingest";
-import { beginStagedUpload, getStagedUpload, readStagedUpload, stageUploadBody, StagedUploadAborted } from "@/server/datasets/staging";
+import { beginStagedUpload, deleteStagedUpload, getStagedUpload, readStagedUpload, stageUploadBody, StagedUploadAborted } from "@/server/datasets/staging";
 import type { RoleAssignment } from "@/server/datasets/roles";
 import { getQueue } from "@/server/jobs/queue";
 import { apiRequest, makeTeam, routeContext, runIngestJob, streamingRequest, uploadFootprint } from "./support";
@@ -221,5 +221,6 @@ describe("staging", () => {
       for await (const _ of readStagedUpload(staged.id)) void _;
     }).rejects.toThrow("larger than the limit");
     expect(await stagedChunks()).toBe(0);
+    await deleteStagedUpload(staged.id); // what its job would have done
   });
 });

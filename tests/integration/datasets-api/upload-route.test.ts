@@ -16,7 +16,7 @@ import { getDatabase } from "@/db/client";
 import { demoHistoryCsv } from "@/seed/history";
 import { getQueue } from "@/server/jobs/queue";
 import { csv, malformedCases, ROLES } from "@/tests/fixtures/csv/cases";
-import { apiRequest, csvUpload, makeTeam, multipartUpload, routeContext, uploadFootprint } from "./support";
+import { apiRequest, csvUpload, makeTeam, multipartUpload, routeContext, streamingRequest, uploadFootprint } from "./support";
 
 type Team = Awaited<ReturnType<typeof makeTeam<{ analyst: ["analyst"]; reviewer: ["reviewer"]; planner: ["planner"] }>>>;
 let team: Team;
@@ -142,6 +142,20 @@ describe("POST /api/datasets", () => {
     } finally {
       delete process.env.DATASET_MAX_BYTES;
     }
+  });
+
+  it("stores nothing when the connection ends before the declared Content-Length (a client that went away)", async () => {
+    const before = await uploadFootprint(team.workspace.id);
+    const content = Buffer.from(csv());
+    // complete lines, so a server that took the early end for the end of the file would store 5 rows
+    const cut = content.subarray(0, content.indexOf("2024-02-05"));
+    const response = await upload(
+      streamingRequest(team.tokens.analyst, [new Uint8Array(cut)], { "content-type": "text/csv", "content-length": String(content.length) }, "filename=cut.csv"),
+      routeContext(),
+    );
+    expect(response.status).toBe(422);
+    expect((await response.json()).error).toMatch(/^The upload ended after \d+ of \d+ bytes; nothing was stored\.$/);
+    expect(await uploadFootprint(team.workspace.id)).toEqual(before);
   });
 
   it("refuses callers without dataset:upload (403) and without credentials (401)", async () => {

@@ -27,6 +27,10 @@ export const PUT = apiRoute({ permission: "dataset:upload", params: idParams, bo
     beforeCommit: (tx, datasetId) => recordDatasetRolesAssigned(tx, { datasetId, actorUserId: actor.userId, roles: body.roles }),
   });
   if (!result) throw new AppError("not_found:dataset", "No such spend history in this workspace.");
-  if (!result.ok) return json(reportToErrorBody(result.report), 422);
+  if (!result.ok) {
+    // the file itself stays stored: say what was refused
+    const body = reportToErrorBody(result.report);
+    return json({ ...body, error: body.error.replace(/^The file was not stored: /, "The roles were not saved: ") }, 422);
+  }
   return datasetResponse(result.dataset, { notes: result.report.notes });
 });
