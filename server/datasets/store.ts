@@ -277,6 +277,15 @@ const baseName = (filename: string) => {
  *
  * Resolves `{ ok: false, report }` for a bad file (every problem, with row and column); rejects for
  * failures that are not the file's fault (stream aborted, database down) and for malformed options.
+ *
+ * From a route handler with a raw CSV body (multipart needs a streaming parser in front):
+ *   const result = await createDataset({ workspaceId, userId, originalFilename,
+ *     stream: Readable.fromWeb(request.body as import("node:stream/web").ReadableStream<Uint8Array>),
+ *     totalBytes: Number(request.headers.get("content-length")) || null, options, onProgress });
+ *   if (!result.ok) return Response.json(reportToErrorBody(result.report), { status: statusForReport(result.report) });
+ *   return Response.json(result.dataset, { status: 201 });
+ * The transaction stays open while the body streams in: for slow clients, stage the bytes first and
+ * run this in a worker job (one pooled connection per upload in progress).
  */
 export async function createDataset(input: CreateDatasetInput): Promise<CreateDatasetResult> {
   const options = datasetOptionsSchema.parse(input.options ?? {});
