@@ -24,5 +24,5 @@ export function proxy(request: NextRequest) {
 
 export const config = {
   // Pages of the signed-in app only: not /login, /invite, /api (route handlers answer 401 themselves) or assets.
-  matcher: ["/", "/datasets/:path*", "/fits/:path*", "/scenarios/:path*", "/compare/:path*", "/settings/:path*", "/api-docs/:path*"],
+  matcher: ["/", "/datasets/:path*", "/fits/:path*", "/scenarios/:path*", "/compare/:path*", "/notifications/:path*", "/settings/:path*", "/api-docs/:path*"],
 };

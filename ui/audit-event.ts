@@ -44,6 +44,18 @@ export function describeAuditEvent(event: Pick<AuditEventDto, "action" | "detail
       return `uploaded the spend history “${str(d.name)}” (${typeof d.rows === "number" ? d.rows.toLocaleString("en") : "?"} rows, ${str(d.filename)})`;
     case "dataset.roles_assigned":
       return `chose the column roles of “${str(d.name)}” (outcome ${str(d.outcome) || "—"}, ${Array.isArray(d.spend) ? d.spend.length : 0} spend channels${typeof d.droppedRows === "number" && d.droppedRows > 0 ? `, ${d.droppedRows} incomplete rows left out` : ""})`;
+    case "comparison.created":
+      return `saved the comparison “${str(d.name)}”`;
+    case "share.created":
+      return `shared ${event.objectType === "comparison" ? `the comparison “${str(d.name)}”` : `“${str(d.name)}” version ${String(d.version ?? "?")}`} with ${list(d.recipients)}${d.acknowledgement ? " (warnings acknowledged)" : ""}`;
+    case "comment.posted":
+      return `commented on “${str(d.name)}” version ${String(d.version ?? "?")}`;
+    case "comment.replied":
+      return `replied to a comment on “${str(d.name)}” version ${String(d.version ?? "?")}`;
+    case "signoff.signed_off":
+      return `signed off “${str(d.name)}” version ${String(d.version ?? "?")}`;
+    case "signoff.declined":
+      return `declined “${str(d.name)}” version ${String(d.version ?? "?")}: ${str(d.reason)}`;
     default:
       return `${event.action.replace(/[._]/g, " ")}`;
   }

@@ -1,5 +1,7 @@
 import type { ReactNode } from "react";
 import { can, listActorWorkspaces, requirePageActor, roleLabels, type Permission } from "@/server/authz";
+import { countUnreadNotifications } from "@/server/notifications/store";
+import { NotificationsLink } from "@/ui/compare/notifications-link";
 import { signOutAction, switchWorkspaceAction } from "./actions";
 import { NavLinks, type NavItem } from "./nav-links";
 
@@ -15,7 +17,7 @@ const navigation: (NavItem & { permission?: Permission })[] = [
 
 export default async function AppLayout({ children }: { children: ReactNode }) {
   const actor = await requirePageActor();
-  const workspaces = await listActorWorkspaces(actor);
+  const [workspaces, unread] = await Promise.all([listActorWorkspaces(actor), countUnreadNotifications({ workspaceId: actor.workspaceId, userId: actor.userId })]);
   const items = navigation.filter((item) => !item.permission || can(actor, item.permission)).map(({ href, label }) => ({ href, label }));
   return (
     <div className="flex min-h-screen flex-col">
@@ -54,6 +56,7 @@ export default async function AppLayout({ children }: { children: ReactNode }) {
             )}
           </div>
           <div className="flex items-center gap-3 text-sm">
+            <NotificationsLink unread={unread} />
             <span className="text-right leading-tight">
               <span className="block font-medium" data-testid="signed-in-user">
                 {actor.name ?? actor.email}

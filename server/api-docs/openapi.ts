@@ -1049,7 +1049,273 @@ const datasets: Section = {
 };
 
 /** Areas in the order the documentation lists them; add yours here. */
-const sections: Section[] = [datasets, fits, scenarios, suggestions, jobs];
+// ---------------------------------------------------------------------------------------------
+// Side by side and finance review (issue 6)
+
+const versionParameters = [idParameter("scenario"), versionNumberParameter];
+const shareRequest = {
+  type: "object",
+  required: ["recipients"],
+  properties: {
+    recipients: { type: "array", minItems: 1, items: { type: "string" }, description: "Finance members of the workspace, by user id or e-mail address." },
+    note: { type: "string", maxLength: 2000 },
+    acknowledgement: {
+      type: ["string", "null"],
+      maxLength: 2000,
+      description: "Required when a shared version carries extrapolation warnings (422 without it): the planner's words that the numbers there are guesses.",
+    },
+  },
+  example: { recipients: ["finance@larkspur.example"], note: "Please look before Friday." },
+};
+
+const review: Section = {
+  tag: {
+    name: "Side by side",
+    description:
+      "Comparisons of 2–4 scenario versions, finance review (comments, sign-off bound to one version), sharing with finance members, notifications and exports. A version's difference from the baseline has its own interval from the fit's covariance when both are on one fit; across fits no joint interval exists. Every number is an association from past data; the intervals assume the fitted model still describes the market; test large shifts on part of the budget first.",
+  },
+  schemas: {
+    VersionRef: { type: "object", required: ["scenarioId", "version"], properties: { scenarioId: { type: "string", format: "uuid" }, version: { type: "integer", minimum: 1 } } },
+    Signoff: {
+      type: "object",
+      description: "One finance decision on exactly one version (UI: Signed off · Declined (with reason)).",
+      properties: {
+        id: { type: "string", format: "uuid" },
+        scenarioId: { type: "string", format: "uuid" },
+        version: { type: "integer" },
+        decision: { type: "string", enum: ["signed_off", "declined"] },
+        reason: { type: "string" },
+        decidedById: { type: ["string", "null"] },
+        decidedByName: { type: ["string", "null"] },
+        decidedAt: { type: "string", format: "date-time" },
+      },
+    },
+    Comparison: {
+      type: "object",
+      properties: {
+        id: { type: ["string", "null"], format: "uuid" },
+        name: { type: ["string", "null"] },
+        baselinePosition: { type: "integer", description: "Column (0-based) the differences are measured from." },
+        oneFit: { type: "boolean" },
+        channels: { type: "array", items: { type: "object", properties: { name: { type: "string" }, label: { type: "string" } } } },
+        columns: {
+          type: "array",
+          items: {
+            type: "object",
+            properties: {
+              position: { type: "integer" },
+              scenarioId: { type: "string", format: "uuid" },
+              scenarioName: { type: "string" },
+              version: { type: "integer" },
+              latestVersion: { type: "integer" },
+              allocation: { type: "object", additionalProperties: { type: "number" }, description: "Channel → amount over the horizon." },
+              totalSpend: { type: "number" },
+              horizon: { type: "integer" },
+              outcome: { type: "object", description: "The saved prediction of the horizon total: `mean`, `confidence` [low, high], `prediction` [low, high]." },
+              level: { type: "number" },
+              warnings: { type: "array", items: ref("ScenarioWarning") },
+              fit: { type: "object", properties: { id: { type: "string" }, name: { type: "string" }, status: { type: "string" }, approvedByName: { type: ["string", "null"] }, approvedAt: { type: ["string", "null"] } } },
+              difference: {
+                type: "object",
+                description: "`baseline`; `joint`: mean and `confidence` [low, high] of this expected total minus the baseline's, from the fit's covariance; `none`: the fits differ, `reason` says so.",
+                properties: { kind: { type: "string", enum: ["baseline", "joint", "none"] }, mean: { type: "number" }, confidence: { type: "array", items: { type: "number" } }, reason: { type: "string" } },
+              },
+              signoff: { oneOf: [ref("Signoff"), { type: "null" }], description: "The version's latest decision; null: not signed off." },
+            },
+          },
+        },
+      },
+    },
+    Comment: {
+      type: "object",
+      properties: {
+        id: { type: "string", format: "uuid" },
+        scenarioId: { type: "string", format: "uuid" },
+        version: { type: "integer" },
+        parentId: { type: ["string", "null"], format: "uuid" },
+        comparisonId: { type: ["string", "null"], format: "uuid" },
+        authorName: { type: ["string", "null"] },
+        body: { type: "string" },
+        mentions: { type: "array", items: { type: "object", properties: { userId: { type: "string" }, name: { type: ["string", "null"] }, email: { type: "string" } } } },
+        createdAt: { type: "string", format: "date-time" },
+      },
+    },
+    Share: {
+      type: "object",
+      properties: {
+        id: { type: "string", format: "uuid" },
+        objectType: { type: "string", enum: ["scenario", "comparison"] },
+        link: { type: "string" },
+        recipients: { type: "array", items: { type: "object" } },
+        acknowledgement: { type: ["string", "null"] },
+        mailedTo: { type: "array", items: { type: "string" } },
+      },
+    },
+    Notification: {
+      type: "object",
+      properties: {
+        id: { type: "string", format: "uuid" },
+        kind: { type: "string", enum: ["share", "mention", "reply", "comment", "signoff", "decline"] },
+        title: { type: "string" },
+        link: { type: "string", description: "A path inside the app." },
+        actorName: { type: ["string", "null"] },
+        createdAt: { type: "string", format: "date-time" },
+        readAt: { type: ["string", "null"], format: "date-time" },
+      },
+    },
+  },
+  paths: {
+    "/api/comparisons": {
+      get: {
+        tags: ["Side by side"],
+        summary: "Saved comparisons of the workspace, newest first",
+        responses: { "200": jsonBody({ type: "object", properties: { comparisons: { type: "array", items: { type: "object" } } } }), ...commonErrors },
+      },
+      post: {
+        tags: ["Side by side"],
+        summary: "Save a named comparison of 2–4 versions (planners, finance)",
+        requestBody: {
+          required: true,
+          ...jsonBody({
+            type: "object",
+            required: ["name", "versions"],
+            properties: { name: { type: "string", maxLength: 200 }, versions: { type: "array", minItems: 2, maxItems: 4, items: ref("VersionRef") }, baseline: { type: "integer", minimum: 0, maximum: 3, default: 0 } },
+          }),
+        },
+        responses: {
+          "201": jsonBody(ref("Comparison"), "The saved comparison, computed."),
+          "404": error("A scenario of another workspace, or a version that does not exist."),
+          "422": error("Fewer than 2 or more than 4 versions, a version twice, a baseline outside them."),
+          ...commonErrors,
+        },
+      },
+    },
+    "/api/comparisons/{id}": {
+      get: {
+        tags: ["Side by side"],
+        summary: "A saved comparison, computed now",
+        parameters: [idParameter("comparison"), { name: "baseline", in: "query", required: false, description: "Another baseline column (0-based)", schema: { type: "integer", minimum: 0, maximum: 3 } }],
+        responses: { "200": jsonBody(ref("Comparison")), "404": error("No such comparison in this workspace."), ...commonErrors },
+      },
+    },
+    "/api/comparisons/{id}/export.csv": {
+      get: {
+        tags: ["Side by side"],
+        summary: "The comparison as CSV, one row per version",
+        description: "Numbers as numbers; text starting with = + - @ is prefixed with ' so spreadsheets never run it.",
+        parameters: [idParameter("comparison")],
+        responses: { "200": { description: "text/csv", content: { "text/csv": { schema: { type: "string" } } } }, "404": error("No such comparison in this workspace."), ...commonErrors },
+      },
+    },
+    "/api/comparisons/{id}/export.pdf": {
+      get: {
+        tags: ["Side by side"],
+        summary: "A one-page PDF for finance",
+        description: "Each version's spend, predicted outcome with both intervals, difference from the baseline, warnings, the fit and who approved it, the sign-off, and the cautions.",
+        parameters: [idParameter("comparison")],
+        responses: { "200": { description: "application/pdf", content: { "application/pdf": { schema: { type: "string", format: "binary" } } } }, "404": error("No such comparison in this workspace."), ...commonErrors },
+      },
+    },
+    "/api/comparisons/{id}/share": {
+      post: {
+        tags: ["Side by side"],
+        summary: "Share a comparison with finance members (planners)",
+        description: "Each recipient gets an e-mail with the link and a notification; the share is in the audit log.",
+        parameters: [idParameter("comparison")],
+        requestBody: { required: true, ...jsonBody(shareRequest) },
+        responses: {
+          "201": jsonBody(ref("Share")),
+          "404": error("No such comparison in this workspace."),
+          "422": error("A recipient who is not a finance member, or a warned version without an acknowledgement."),
+          ...commonErrors,
+        },
+      },
+    },
+    "/api/scenarios/{id}/versions/{n}/comments": {
+      get: {
+        tags: ["Side by side"],
+        summary: "Comments on one version, oldest first",
+        parameters: versionParameters,
+        responses: { "200": jsonBody({ type: "object", properties: { comments: { type: "array", items: ref("Comment") } } }), "404": error("No such scenario or version."), ...commonErrors },
+      },
+      post: {
+        tags: ["Side by side"],
+        summary: "Comment on one version (planners, finance)",
+        description: "`@Full Name` or `@e-mail` mentions a member, who is e-mailed. Replies carry `parentId` (a comment on the same version).",
+        parameters: versionParameters,
+        requestBody: {
+          required: true,
+          ...jsonBody({
+            type: "object",
+            required: ["body"],
+            properties: { body: { type: "string", maxLength: 4000 }, parentId: { type: ["string", "null"], format: "uuid" }, comparisonId: { type: ["string", "null"], format: "uuid" } },
+          }),
+        },
+        responses: { "201": jsonBody(ref("Comment")), "404": error("No such scenario or version."), "422": error("Empty, or a parent on another version."), ...commonErrors },
+      },
+    },
+    "/api/scenarios/{id}/versions/{n}/signoff": {
+      get: {
+        tags: ["Side by side"],
+        summary: "The version's sign-off status and decision history",
+        parameters: versionParameters,
+        responses: {
+          "200": jsonBody({ type: "object", properties: { current: { oneOf: [ref("Signoff"), { type: "null" }] }, history: { type: "array", items: ref("Signoff") } } }, "current null: not signed off."),
+          "404": error("No such scenario or version."),
+          ...commonErrors,
+        },
+      },
+      post: {
+        tags: ["Side by side"],
+        summary: "Sign off or decline exactly this version (finance)",
+        parameters: versionParameters,
+        requestBody: {
+          required: true,
+          ...jsonBody({ type: "object", required: ["decision"], properties: { decision: { type: "string", enum: ["signed_off", "declined"] }, reason: { type: ["string", "null"], description: "Required to decline." } } }),
+        },
+        responses: {
+          "201": jsonBody(ref("Signoff")),
+          "404": error("No such scenario or version."),
+          "409": error("Signing off a version whose fit is no longer approved."),
+          "422": error("A decline without a reason."),
+          ...commonErrors,
+        },
+      },
+    },
+    "/api/scenarios/{id}/versions/{n}/share": {
+      post: {
+        tags: ["Side by side"],
+        summary: "Share one version with finance members (planners)",
+        parameters: versionParameters,
+        requestBody: { required: true, ...jsonBody(shareRequest) },
+        responses: {
+          "201": jsonBody(ref("Share")),
+          "404": error("No such scenario or version."),
+          "422": error("A recipient who is not a finance member, or a warned version without an acknowledgement."),
+          ...commonErrors,
+        },
+      },
+    },
+    "/api/notifications": {
+      get: {
+        tags: ["Side by side"],
+        summary: "The caller's notifications in this workspace, with the unread count",
+        parameters: [{ name: "unread", in: "query", required: false, description: "1: only unread", schema: { type: "string", enum: ["0", "1", "true", "false"] } }],
+        responses: { "200": jsonBody({ type: "object", properties: { unread: { type: "integer" }, notifications: { type: "array", items: ref("Notification") } } }), ...commonErrors },
+      },
+    },
+    "/api/notifications/read": {
+      post: {
+        tags: ["Side by side"],
+        summary: "Mark the caller's notifications read (ids, or all)",
+        requestBody: { required: true, ...jsonBody({ type: "object", properties: { ids: { type: "array", items: { type: "string", format: "uuid" } }, all: { type: "boolean" } } }) },
+        responses: { "200": jsonBody({ type: "object", properties: { marked: { type: "integer" }, unread: { type: "integer" } } }), "422": error("Neither ids nor all."), ...commonErrors },
+      },
+    },
+  },
+};
+
+const sections: Section[] = [datasets, fits, scenarios, suggestions, review, jobs];
 
 export const openApiDocument = {
   openapi: "3.1.0",

@@ -2,7 +2,7 @@ import "server-only";
 import { and, desc, eq, inArray } from "drizzle-orm";
 import { alias } from "drizzle-orm/pg-core";
 import { db } from "@/db/client";
-import { comparisons, scenarios, shareRecipients, shares, users } from "@/db/schema";
+import { comparisonVersions, comparisons, scenarios, shareRecipients, shares, users } from "@/db/schema";
 import { type Actor, assertInWorkspace } from "@/server/authz";
 import { recordAudit } from "@/server/data/audit";
 import { listMembersByWorkspaceId } from "@/server/data/members";
@@ -232,21 +232,33 @@ export async function listSharedWithUser(input: { workspaceId: string; userId: s
   }));
 }
 
-/** Shares of a scenario's versions (who it went to), for the scenario page. */
+/**
+ * Who each of a scenario's versions was shared with, for the scenario page: shares of the version
+ * itself and of comparisons that show it (one entry per version and share).
+ */
 export async function listSharesOfScenario(scenarioId: string): Promise<{ version: number; recipients: string[]; sharedAt: string; sharedByName: string | null }[]> {
-  const rows = await db
+  const direct = await db
     .select({ id: shares.id, version: shares.versionNumber, sharedAt: shares.createdAt, sharedByName: sharers.name })
     .from(shares)
     .leftJoin(sharers, eq(sharers.id, shares.sharedBy))
     .where(eq(shares.scenarioId, scenarioId))
     .orderBy(desc(shares.createdAt))
-    .limit(100);
+    .limit(200);
+  const viaComparisons = await db
+    .select({ id: shares.id, version: comparisonVersions.versionNumber, sharedAt: shares.createdAt, sharedByName: sharers.name })
+    .from(comparisonVersions)
+    .innerJoin(shares, eq(shares.comparisonId, comparisonVersions.comparisonId))
+    .leftJoin(sharers, eq(sharers.id, shares.sharedBy))
+    .where(eq(comparisonVersions.scenarioId, scenarioId))
+    .orderBy(desc(shares.createdAt))
+    .limit(200);
+  const rows = [...direct, ...viaComparisons];
   if (rows.length === 0) return [];
   const people = await db
     .select({ shareId: shareRecipients.shareId, name: users.name, email: users.email })
     .from(shareRecipients)
     .innerJoin(users, eq(users.id, shareRecipients.userId))
-    .where(inArray(shareRecipients.shareId, rows.map((row) => row.id)));
+    .where(inArray(shareRecipients.shareId, [...new Set(rows.map((row) => row.id))]));
   return rows.map((row) => ({
     version: row.version ?? 0,
     recipients: people.filter((person) => person.shareId === row.id).map((person) => person.name ?? person.email),

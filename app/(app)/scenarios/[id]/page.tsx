@@ -6,6 +6,7 @@ import { getCachedFit } from "@/server/predict/fit-cache";
 import { moneyOf } from "@/server/predict/service";
 import { getScenarioById, getScenarioVersion } from "@/server/scenarios/store";
 import { ScenarioRoom } from "@/ui/scenario/scenario-room";
+import { ScenarioReviewSection } from "../../compare/_review/scenario-review-section";
 
 export const metadata: Metadata = { title: "Scenario" };
 
@@ -43,6 +44,7 @@ export default async function ScenarioPage({ params }: { params: Promise<{ id: s
         canWrite={approved && can(actor, "scenario:write")}
         canPredict={approved && can(actor, "fit:predict")}
       />
+      <ScenarioReviewSection actor={actor} scenario={scenario} />
     </div>
   );
 }

@@ -1,0 +1,219 @@
+// Side by side with finance, as the people meet it after the seed: a planner has a scenario with
+// versions 1 and 2 (saved through the API), picks them on /compare, saves the comparison and shares it
+// with the finance member, who gets an e-mail and a notification, opens the comparison (read-only: no
+// allocation controls; the API refuses a save with 403), comments mentioning the planner (e-mailed)
+// and signs off version 2. The planner saves version 3 on the scenario page and sees that it is not
+// signed off (version 2 is). Exports download; the notification is marked read.
+import type { Browser, Page } from "playwright-core";
+import type postgres from "postgres";
+import { afterAll, beforeAll, describe, expect, test } from "vitest";
+import { launch, openPage, type TestPage } from "./support/browser";
+import { linksIn, waitForMail } from "./support/mail";
+import { api, createTokenFor, demoAccountFor, signInAs, testDatabase } from "./support/sign-in";
+
+let browser: Browser;
+let planner: TestPage;
+let finance: TestPage;
+let sql: postgres.Sql;
+let plannerToken: string;
+let financeToken: string;
+let scenarioId: string;
+let comparisonPath: string;
+const stamp = Date.now().toString(36);
+const scenarioName = `Q3 push ${stamp}`;
+const comparisonName = `Q3 options ${stamp}`;
+const planners = demoAccountFor("planner");
+const financeAccount = demoAccountFor("finance");
+
+type Json = Record<string, any>;
+
+beforeAll(async () => {
+  sql = testDatabase();
+  plannerToken = (await createTokenFor(sql, planners.email, "larkspur", "e2e compare")).token;
+  financeToken = (await createTokenFor(sql, financeAccount.email, "larkspur", "e2e compare")).token;
+  const [fit] = await sql<{ id: string }[]>`
+    select f.id from fits f join workspaces w on w.id = f.workspace_id
+    where w.slug = 'larkspur' and f.status = 'approved' order by f.approved_at limit 1`;
+  if (!fit) throw new Error("The seed has no approved fit in Larkspur Outfitters.");
+  // Versions 1 and 2 through the API: the starting plan, then 1,000 a week moved from display to search.
+  const started = (await (await api("/api/scenarios", { method: "POST", token: plannerToken, json: { fitId: fit.id, name: scenarioName } })).json()) as Json;
+  scenarioId = started.id;
+  const { allocation, controls, horizon, total } = started.baseline;
+  for (const [index, moved] of [0, 13_000].entries()) {
+    const plan = { ...allocation, search_eur: allocation.search_eur + moved, display_eur: allocation.display_eur - moved };
+    const saved = await api(`/api/scenarios/${scenarioId}/versions`, {
+      method: "POST",
+      token: plannerToken,
+      json: { baseVersion: index, mode: "fixed", allocation: plan, controls, horizon, total, note: index === 0 ? "Last quarter's split" : "More on search" },
+    });
+    expect(saved.status, await saved.clone().text()).toBe(201);
+  }
+  browser = await launch();
+  planner = await openPage(browser);
+  finance = await openPage(browser);
+});
+
+afterAll(async () => {
+  await planner?.close();
+  await finance?.close();
+  await browser?.close();
+  await sql`delete from api_tokens where name = 'e2e compare'`.catch(() => {});
+  await sql?.end();
+});
+
+/** Console errors other than the favicon 404 (the app ships an SVG icon only). */
+const unexpectedErrors = (tab: TestPage) => tab.errors.filter((error) => !/favicon\.ico/.test(error));
+
+/** A message's text with quoted-printable soft breaks and escapes undone (UTF-8). */
+const readable = (raw: string) =>
+  Buffer.from(raw.replace(/=\r?\n/g, "").replace(/=([0-9A-F]{2})/g, (_match, hex: string) => String.fromCharCode(parseInt(hex, 16))), "latin1").toString("utf8");
+
+const column = (page: Page, version: number) => page.locator(`[data-testid="comparison-column"][data-version="${version}"]`);
+
+describe("side by side with finance", () => {
+  test("the planner picks versions 1 and 2, saves the comparison and shares it with finance", async () => {
+    const { page } = planner;
+    await signInAs(page, "planner");
+    await page.getByRole("navigation", { name: "Main" }).getByRole("link", { name: "Side by side" }).click();
+    await page.waitForURL((url) => url.pathname === "/compare");
+    await page.getByRole("checkbox", { name: `${scenarioName} version 1` }).check();
+    await page.getByRole("checkbox", { name: `${scenarioName} version 2` }).check();
+    await page.getByRole("button", { name: "Show side by side" }).click();
+    await page.waitForURL((url) => url.pathname === "/compare/view");
+    await page.getByTestId("comparison-table").waitFor();
+    // The difference of v2 from v1 with its own interval (both on the demo fit).
+    const difference = page.locator('[data-testid="difference"][data-kind="joint"]');
+    await expect.poll(() => difference.count()).toBe(1);
+    expect(await difference.textContent()).toMatch(/^[+−]€[\d,]+95% confidence interval [+−]?€[\d,]+ to [+−]?€[\d,]+/);
+    await page.getByLabel("Name this comparison").fill(comparisonName);
+    await page.getByRole("button", { name: "Save comparison" }).click();
+    await page.waitForURL(/\/compare\/[0-9a-f-]{36}$/, { timeout: 15_000 });
+    comparisonPath = new URL(page.url()).pathname;
+    expect(await page.getByTestId("comparison-title").textContent()).toBe(comparisonName);
+    await planner.screenshot("compare-01-planner-saved");
+
+    const since = new Date(Date.now() - 1_000);
+    await page.getByRole("button", { name: "Share with finance" }).click();
+    await page.getByRole("checkbox", { name: new RegExp(financeAccount.name) }).check();
+    await page.getByLabel("Note (optional)").fill("Please look at v2 before Friday.");
+    await page.getByRole("button", { name: "Share and e-mail" }).click();
+    await expect.poll(() => page.getByTestId("share-done").textContent(), { timeout: 15_000 }).toMatch(`Shared with ${financeAccount.name}`);
+    await planner.screenshot("compare-02-planner-shared");
+
+    const mail = await waitForMail({ to: financeAccount.email, since });
+    expect(readable(mail.raw)).toContain("Please look at v2 before Friday.");
+    expect(linksIn(mail.raw).some((link) => link.endsWith(comparisonPath))).toBe(true);
+    expect(unexpectedErrors(planner)).toEqual([]);
+  });
+
+  test("finance sees the notification, opens the comparison read-only, comments and signs off version 2", async () => {
+    const { page } = finance;
+    await signInAs(page, "finance");
+    const unread = Number(await page.getByTestId("notifications-link").getAttribute("data-unread"));
+    expect(unread).toBeGreaterThanOrEqual(1);
+    await page.getByTestId("notifications-link").click();
+    await page.waitForURL((url) => url.pathname === "/notifications");
+    const item = page.getByRole("link", { name: `${planners.name} shared the comparison “${comparisonName}” with you.` });
+    await item.first().waitFor();
+    await finance.screenshot("compare-03-finance-notifications");
+    await item.first().click();
+    await page.waitForURL((url) => url.pathname === comparisonPath);
+    await page.getByTestId("comparison-table").waitFor();
+
+    // Read-only: no allocation controls anywhere on the comparison.
+    expect(await page.getByRole("slider").count()).toBe(0);
+    expect(await page.getByRole("textbox", { name: /spend for the horizon/ }).count()).toBe(0);
+    expect(await page.getByRole("button", { name: /^Save version/ }).count()).toBe(0);
+    expect(await column(page, 2).getByTestId("signoff-badge").getAttribute("data-state")).toBe("none");
+
+    // Review version 2: comment mentioning the planner, then sign off.
+    await page.getByRole("tab", { name: new RegExp(`${scenarioName} v2`) }).click();
+    const since = new Date(Date.now() - 1_000);
+    const box = page.getByLabel("Comment on version 2");
+    await box.fill("Search looks right. ");
+    await page.getByRole("combobox", { name: "Mention a member" }).selectOption({ label: planners.name });
+    await box.press("End");
+    await box.pressSequentially("can we keep display above 100k?");
+    expect(await page.getByTestId("mention-preview").textContent()).toBe(`Will e-mail ${planners.name}.`);
+    await page.getByRole("button", { name: "Post comment" }).click();
+    await expect.poll(() => page.getByTestId("comment").count(), { timeout: 15_000 }).toBe(1);
+    const mention = await waitForMail({ to: planners.email, since, subject: /mentioned you/ });
+    expect(readable(mention.raw)).toContain("@Priya Nair can we keep display above 100k?");
+
+    await page.getByRole("button", { name: "Sign off version 2" }).click();
+    await expect.poll(() => column(page, 2).getByTestId("signoff-badge").getAttribute("data-state"), { timeout: 15_000 }).toBe("signed_off");
+    expect(await column(page, 1).getByTestId("signoff-badge").getAttribute("data-state")).toBe("none");
+    expect(await page.getByTestId("signoff-sentence").textContent()).toMatch(`Version 2 was signed off by ${financeAccount.name}`);
+    await finance.screenshot("compare-04-finance-signed-off");
+
+    // The notification was marked read on the way in.
+    await page.goto("/notifications");
+    const shared = page.locator('[data-testid="notification"]', { hasText: comparisonName }).first();
+    expect(await shared.getAttribute("data-unread")).toBe("false");
+    expect(unexpectedErrors(finance)).toEqual([]);
+  });
+
+  test("finance cannot change an allocation: no controls to save on the scenario page, and the API answers 403", async () => {
+    const { page } = finance;
+    await page.goto(`/scenarios/${scenarioId}`);
+    await page.getByTestId("scenario-signoff-status").waitFor();
+    expect(await page.getByRole("button", { name: /^Save version/ }).count()).toBe(0);
+    const versions = (await (await api(`/api/scenarios/${scenarioId}`, { token: financeToken })).json()) as Json;
+    const latest = (await (await api(`/api/scenarios/${scenarioId}/versions/2`, { token: financeToken })).json()) as Json;
+    const attempt = await api(`/api/scenarios/${scenarioId}/versions`, {
+      method: "POST",
+      token: financeToken,
+      json: { baseVersion: versions.latestVersion, mode: "fixed", allocation: { ...latest.allocation, search_eur: latest.allocation.search_eur + 100, display_eur: latest.allocation.display_eur - 100 }, controls: latest.controls, horizon: latest.horizon, total: latest.total },
+    });
+    expect(attempt.status).toBe(403);
+    expect(((await attempt.json()) as Json).error).toMatch(/roles/i);
+    const [{ count }] = await sql<{ count: number }[]>`select count(*)::int as count from scenario_versions where scenario_id = ${scenarioId}`;
+    expect(count).toBe(2);
+  });
+
+  test("the planner saves version 3 and sees it is not signed off (version 2 is)", async () => {
+    const { page } = planner;
+    await page.goto(`/scenarios/${scenarioId}`);
+    const status = page.getByTestId("scenario-signoff-status");
+    await expect.poll(() => status.textContent(), { timeout: 15_000 }).toMatch(/Latest version 2: v2 · Signed off/);
+    const search = page.getByRole("slider", { name: "Search spend for the horizon" });
+    await search.focus();
+    await page.keyboard.press("ArrowRight");
+    await page.getByLabel("Note for this version").fill("A little more on search");
+    await page.getByRole("button", { name: "Save version 3" }).click();
+    await expect.poll(() => page.getByTestId("save-message").textContent(), { timeout: 15_000 }).toMatch(/Saved as version 3/);
+    // The review section follows the new version without a reload.
+    await expect.poll(() => status.textContent(), { timeout: 20_000 }).toMatch(/Latest version 3: v3 · Not signed off/);
+    expect(await status.textContent()).toContain("Version 2 is signed off; version 3 is not.");
+    const row = (n: number) => page.locator(`[data-testid="version-signoff-row"][data-version="${n}"] [data-testid="signoff-badge"]`);
+    expect(await row(3).getAttribute("data-state")).toBe("none");
+    expect(await row(2).getAttribute("data-state")).toBe("signed_off");
+    await page.getByTestId("scenario-signoff-status").scrollIntoViewIfNeeded();
+    await planner.screenshot("compare-05-planner-version-3-not-signed-off");
+
+    // The same on /compare, and the API agrees.
+    await page.goto("/compare");
+    const overview = page.locator(`[data-testid="signoff-overview-row"][data-scenario="${scenarioId}"] [data-testid="signoff-badge"]`);
+    expect(await overview.getAttribute("data-state")).toBe("none");
+    expect(await overview.textContent()).toBe("v3 · Not signed off");
+    const v3 = (await (await api(`/api/scenarios/${scenarioId}/versions/3/signoff`, { token: plannerToken })).json()) as Json;
+    expect(v3.current).toBeNull();
+    const v2 = (await (await api(`/api/scenarios/${scenarioId}/versions/2/signoff`, { token: plannerToken })).json()) as Json;
+    expect(v2.current).toMatchObject({ decision: "signed_off", decidedByName: financeAccount.name });
+    await planner.screenshot("compare-06-overview");
+    expect(unexpectedErrors(planner)).toEqual([]);
+  });
+
+  test("exports: the CSV and the one-page PDF download from the comparison", async () => {
+    const id = comparisonPath.split("/").pop() as string;
+    const csv = await api(`/api/comparisons/${id}/export.csv`, { token: financeToken });
+    expect(csv.status).toBe(200);
+    const text = await csv.text();
+    expect(text).toContain(scenarioName);
+    expect(text.split("\r\n").filter(Boolean)).toHaveLength(3);
+    const pdf = await api(`/api/comparisons/${id}/export.pdf`, { token: financeToken });
+    expect(pdf.status).toBe(200);
+    expect(pdf.headers.get("content-type")).toBe("application/pdf");
+    expect(Buffer.from(await pdf.arrayBuffer()).subarray(0, 5).toString()).toBe("%PDF-");
+  });
+});
