@@ -158,6 +158,8 @@ or point at a running app and its database:
       `targets: ≥ ${(targetRatio * 100).toFixed(0)}% of ping throughput ${ratioOk ? "met" : "NOT met"}; p99 ≤ ${targetP99} ms ${p99Ok ? "met" : "NOT met"} (load generator and server share the machine)`,
     );
     if (measured.non2xx > 0) console.log(`warning: ${measured.non2xx} predict responses were not 2xx`);
+    // `--json`: one machine-readable line for `npm run bench` (bench/index.ts).
+    if (process.argv.includes("--json")) console.log(JSON.stringify({ connections, duration, rounds, ping: floor, predict: measured, me: dynamicFloor, ratio }));
   } finally {
     if (tokenId) await sql`update api_tokens set revoked_at = now() where id = ${tokenId}`;
     await sql.end();
