@@ -9,6 +9,28 @@ const nextConfig: NextConfig = {
   // authInterrupts: forbidden() in requirePageActor renders app/forbidden.tsx with status 403.
   experimental: { serverActions: { bodySizeLimit: "2mb" }, authInterrupts: true },
   serverExternalPackages: ["@node-rs/argon2", "pg-boss", "smtp-server", "pdfkit"],
+  // Security headers (issue 8; tests/e2e/security.test.ts). Pages get their Content-Security-Policy with a
+  // per-request nonce from proxy.ts; everything else (route handlers' JSON, files) gets a policy that
+  // allows nothing, since nothing there should run or be framed.
+  async headers() {
+    const everywhere = [
+      { key: "X-Content-Type-Options", value: "nosniff" },
+      { key: "Referrer-Policy", value: "strict-origin-when-cross-origin" },
+      { key: "X-Frame-Options", value: "DENY" },
+      { key: "Permissions-Policy", value: "camera=(), microphone=(), geolocation=(), payment=(), usb=(), browsing-topics=()" },
+      { key: "Cross-Origin-Opener-Policy", value: "same-origin" },
+    ];
+    return [
+      { source: "/:path*", headers: everywhere },
+      { source: "/api/:path*", headers: [{ key: "Content-Security-Policy", value: "default-src 'none'; frame-ancestors 'none'; base-uri 'none'; form-action 'none'" }] },
+      // HSTS only when the app is reached over TLS (a proxy in front sets X-Forwarded-Proto: https).
+      {
+        source: "/:path*",
+        has: [{ type: "header", key: "x-forwarded-proto", value: "https" }],
+        headers: [{ key: "Strict-Transport-Security", value: "max-age=63072000; includeSubDomains" }],
+      },
+    ];
+  },
 };
 
 export default nextConfig;
