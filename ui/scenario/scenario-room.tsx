@@ -16,6 +16,8 @@ import { channelWarningSentences, type ScenarioPlan } from "@/server/predict/sce
 import type { ChannelSettings, ScenarioDto, VersionDto } from "@/server/scenarios/types";
 import type { FitRecord } from "@/server/stats";
 import { AllocationPanel } from "@/ui/allocation";
+import { ResponseCurvesSection } from "@/ui/response-curves/response-curves-section";
+import { SuggestPanel } from "@/ui/suggest/suggest-panel";
 import { createAllocationStore, useAllocationStore, type AllocationStore } from "@/ui/stores/allocation-store";
 import { ApiError, scenarioApi } from "./api";
 import { shiftShare } from "./cautions";
@@ -275,6 +277,8 @@ function Room({ scenario, fit, initialVersion, money, canWrite, canPredict }: Sc
         </div>
       ) : null}
 
+      {canPredict ? <SuggestPanel fitId={fit.id} store={store} controls={controls} shape={shape} money={money} canWrite={canWrite} /> : null}
+
       <div className="grid gap-6 lg:grid-cols-[minmax(0,1fr)_minmax(0,28rem)]">
         <div className="space-y-4">
           <p className="num text-sm text-slate-600" data-testid="unit-conversion">
@@ -329,6 +333,8 @@ function Room({ scenario, fit, initialVersion, money, canWrite, canPredict }: Sc
           />
         </div>
       </div>
+
+      <ResponseCurvesSection record={fit.record} shape={shape} store={store} controls={controls} money={money} />
 
       <VersionDrawer
         open={drawerOpen}
