@@ -62,7 +62,7 @@ export function SignoffForm({
             {done}
           </p>
         ) : null}
-        <button type="button" onClick={() => setOpen(true)} className={buttonClass("quiet", "px-0 py-0")}>
+        <button type="button" onClick={() => setOpen(true)} className="text-sm font-medium text-shallows underline-offset-2 hover:underline">
           Record another decision on version {version}
         </button>
       </div>
