@@ -77,7 +77,7 @@ describe("suggested split and response curves", () => {
     for (const [channel, amount] of Object.entries(draft.allocation)) {
       expect(amount / horizon, channel).toBeGreaterThanOrEqual(fit.ranges[channel].minimum);
       expect(amount / horizon, channel).toBeLessThanOrEqual(fit.ranges[channel].maximum);
-      expect(Number(await panel.locator(`[data-channel="${channel}"]`).getAttribute("data-amount"))).toBe(amount);
+      expect(Number(await panel.locator(`[data-draft-channel="${channel}"]`).getAttribute("data-amount"))).toBe(amount);
     }
     expect(draft.prediction.warnings.filter((warning) => warning.kind === "outside-range")).toEqual([]);
     // Same total (fixed mode), predicted outcome at least the current plan's — on the page and in the API.
@@ -138,7 +138,7 @@ describe("suggested split and response curves", () => {
     const chart = section.getByRole("img", { name: /^Response curve of Search/ });
     await chart.focus();
     await page.keyboard.press("ArrowRight");
-    await expect.poll(() => section.locator('figure[data-channel="search_eur"] [aria-live]').textContent(), { timeout: 10_000 }).toMatch(/^Search at €[\d,]+: predicted €[\d,]+ \(95% confidence/);
+    await expect.poll(() => section.locator('figure[data-curve-channel="search_eur"] [aria-live]').textContent(), { timeout: 10_000 }).toMatch(/^Search at €[\d,]+: predicted €[\d,]+ \(95% confidence/);
     await tab.screenshot("suggest-03-curves");
     const unexpected = tab.errors.filter((error) => !/\/favicon\.ico\)$|_rsc=\w+\)$/.test(error));
     expect(unexpected, tab.errors.join("\n")).toEqual([]);

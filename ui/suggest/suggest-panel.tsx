@@ -152,7 +152,7 @@ export function SuggestPanel({ fitId, store, controls, shape, money, canWrite }:
               </thead>
               <tbody>
                 {response.channels.map((channel) => (
-                  <tr key={channel.name} className="border-t border-slate-100" data-channel={channel.name} data-amount={channel.amount}>
+                  <tr key={channel.name} className="border-t border-slate-100" data-draft-channel={channel.name} data-amount={channel.amount}>
                     <td className="py-1.5">
                       {channel.label}
                       {channel.locked ? <span className="ml-1.5 text-xs text-slate-500">(locked)</span> : null}
