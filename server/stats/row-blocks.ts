@@ -48,7 +48,22 @@ export function passOverRows(
     const count = Math.min(diagnosticRowsPerBlock, rowCount - start);
     const end = start + count;
     computeTransformedBlock(columns, inverseUpper, rank, transformed, start, count);
-    for (let target = 0; target < rank; target++) {
+    // hᵢ = ‖uᵢ‖², four columns of U per sweep.
+    let target = 0;
+    for (; target + 3 < rank; target += 4) {
+      const offsetA = target * count - start;
+      const offsetB = offsetA + count;
+      const offsetC = offsetB + count;
+      const offsetD = offsetC + count;
+      for (let row = start; row < end; row++) {
+        const a = transformed[offsetA + row];
+        const b = transformed[offsetB + row];
+        const c = transformed[offsetC + row];
+        const d = transformed[offsetD + row];
+        leverages[row] += a * a + b * b + c * c + d * d;
+      }
+    }
+    for (; target < rank; target++) {
       const offset = target * count - start;
       for (let row = start; row < end; row++) {
         const value = transformed[offset + row];
