@@ -44,7 +44,7 @@ export const datasetUploads = pgTable(
   ],
 );
 
-/** The received bytes in order (seq 0, 1, …), about 1 MiB each, stored uncompressed (set in the migration). */
+/** The received bytes in order (seq 0, 1, …), a few MiB each, stored uncompressed (set in the migration). */
 export const datasetUploadChunks = pgTable(
   "dataset_upload_chunks",
   {

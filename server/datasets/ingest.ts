@@ -1,6 +1,6 @@
 import "server-only";
 import type { UploadProgress } from "./pipeline";
-import { deleteStagedUpload, getStagedUpload, readStagedUpload, StagedUploadAborted, type StagedUpload } from "./staging";
+import { copyStagedFile, deleteStagedUpload, getStagedUpload, readStagedUpload, StagedUploadAborted, type StagedUpload } from "./staging";
 import { createDataset, type CreateDatasetResult } from "./store";
 import { recordDatasetUploaded } from "./upload-audit";
 
@@ -26,6 +26,8 @@ export async function ingestStagedUpload(
       options: upload.options,
       totalBytes: upload.declaredBytes,
       onProgress: options.onProgress,
+      // the original bytes are already in PostgreSQL: copy them there, in 1 MiB pieces like every upload
+      storeOriginal: (tx, datasetId) => copyStagedFile(tx, uploadId, datasetId),
       beforeCommit: (tx, datasetId) => recordDatasetUploaded(tx, { datasetId, actorUserId: upload.createdBy, via: "background" }),
     });
     return { ...result, upload };

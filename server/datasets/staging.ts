@@ -1,5 +1,9 @@
 import "server-only";
+import type { Readable } from "node:stream";
+import type postgres from "postgres";
 import { getDatabase } from "@/db/client";
+import { copyFrom, endCopy } from "./pg-copy";
+import { CopyBuffer, uuidBytes } from "./copy-binary";
 import type { DatasetUploadState } from "@/db/schema/dataset-uploads";
 import type { DatasetOptionsInput } from "./roles";
 
@@ -17,7 +21,7 @@ import type { DatasetOptionsInput } from "./roles";
  * are never a dataset: only the ingest's own transaction creates one.
  */
 
-export const STAGING_CHUNK_BYTES = 1024 * 1024;
+export const STAGING_CHUNK_BYTES = 4 * 1024 * 1024;
 /** A "receiving" upload with no new chunk for this long belongs to a web server that went away. */
 export const STAGING_STALL_MS = 60_000;
 /** Staged uploads older than this are removed by cleanupStaleUploads (the ingest runs it). */
@@ -126,16 +130,20 @@ export async function stageUploadBody(
   let seq = 0;
   let writing: Promise<void> = Promise.resolve();
 
-  // the upload row first (locked): once it is aborted or deleted (the ingest gave up on a bad file),
-  // nothing more is written and the caller learns it from the empty result
+  // Each chunk in its own short transaction: the upload row first (locked; once it is aborted or
+  // deleted, e.g. the ingest gave up on a bad file, nothing more is written and the caller learns it),
+  // then the bytes by binary COPY (no hex text either way), committed at once for the reader.
+  const idBytes = uuidBytes(uploadId);
   const write = (bytes: Buffer, n: number, total: number) =>
-    sql`
-      with upload as (
+    sql.begin(async (tx) => {
+      await tx`set local synchronous_commit = off`; // staged bytes are disposable (unlogged tables)
+      const rows = await tx`
         update dataset_uploads set chunk_count = ${n + 1}, received_bytes = ${total}, updated_at = now()
-        where id = ${uploadId} and state = 'receiving' returning id)
-      insert into dataset_upload_chunks (upload_id, seq, bytes) select id, ${n}, ${bytes} from upload returning seq`.then((rows) => {
+        where id = ${uploadId} and state = 'receiving' returning id`;
       if (rows.length === 0) throw new StagedUploadAborted(STOPPED);
-    });
+      const copy = await copyFrom(tx, "copy dataset_upload_chunks (upload_id, seq, bytes) from stdin (format binary)");
+      await endCopy(tx, copy, [...chunkTuple(idBytes, n, bytes)]);
+    }) as Promise<void>;
 
   const flush = async () => {
     if (pieceBytes === 0) return;
@@ -181,6 +189,23 @@ export async function stageUploadBody(
   }
 }
 
+/**
+ * The staged bytes as the dataset's original file (dataset_files, 1 MiB pieces in order), copied inside
+ * PostgreSQL in the ingest's transaction: the bytes do not travel to the worker and back. The bytes are
+ * the ones the ingest read (it reads only this upload's chunks, all of them, before it stores).
+ */
+export async function copyStagedFile(tx: postgres.TransactionSql, uploadId: string, datasetId: string): Promise<void> {
+  await tx`
+    insert into dataset_files (dataset_id, seq, bytes)
+    select ${datasetId}, (row_number() over (order by c.seq, piece) - 1)::int,
+           substring(c.bytes from piece * ${FILE_PIECE_BYTES} + 1 for ${FILE_PIECE_BYTES})
+    from dataset_upload_chunks c, generate_series(0, (length(c.bytes) - 1) / ${FILE_PIECE_BYTES}) as piece
+    where c.upload_id = ${uploadId}
+    order by c.seq, piece`;
+}
+
+const FILE_PIECE_BYTES = 1024 * 1024;
+
 /** Marks an upload aborted (a reader following it fails) and frees its chunks at once. */
 export async function abortStagedUpload(uploadId: string, reason: string): Promise<void> {
   const { sql } = getDatabase();
@@ -205,6 +230,65 @@ export async function cleanupStaleUploads(maxAgeMs = STAGING_MAX_AGE_MS): Promis
   return rows.length;
 }
 
+/** One binary-COPY tuple (upload_id, seq, bytes) with the format's header and trailer around it. */
+function* chunkTuple(uploadId: Buffer, seq: number, bytes: Buffer): Generator<Buffer> {
+  const out = new CopyBuffer(64);
+  out.header();
+  out.ensure(2 + 20 + 8 + 4);
+  out.int16(3);
+  out.int32(16);
+  out.bytes(uploadId);
+  out.int32(4);
+  out.int32(seq);
+  out.int32(bytes.length);
+  yield* out.take(true);
+  yield bytes;
+  out.trailer();
+  yield* out.take(true);
+}
+
+/** The (seq, bytes) tuples of a binary COPY TO STDOUT of `select seq, bytes …`. */
+function parseChunkCopy(data: Buffer): { seq: number; bytes: Buffer }[] {
+  const rows: { seq: number; bytes: Buffer }[] = [];
+  let at = 11 + 4; // signature, flags
+  at += 4 + data.readInt32BE(at); // header extension
+  for (;;) {
+    const fields = data.readInt16BE(at);
+    at += 2;
+    if (fields === -1) return rows;
+    if (fields !== 2) throw new Error(`staging: unexpected COPY tuple with ${fields} fields`);
+    const seqLength = data.readInt32BE(at);
+    const seq = data.readInt32BE(at + 4);
+    at += 4 + seqLength;
+    const length = data.readInt32BE(at);
+    at += 4;
+    rows.push({ seq, bytes: data.subarray(at, at + length) });
+    at += length;
+  }
+}
+
+async function readChunks(uploadId: string, from: number, limit: number): Promise<{ seq: number; bytes: Buffer }[]> {
+  const { sql } = getDatabase();
+  // binary COPY: the bytes arrive as they are stored (a plain select would send them as hex text)
+  const stream = (await sql
+    .unsafe(
+      `copy (select seq, bytes from dataset_upload_chunks where upload_id = '${uploadId}' and seq >= ${from} order by seq limit ${limit}) to stdout (format binary)`,
+    )
+    .readable()) as Readable;
+  // flowing mode: postgres.js 3.4.9's COPY TO readable stalls when read with for-await past ~1 MB
+  const parts: Buffer[] = [];
+  await new Promise<void>((resolve, reject) => {
+    stream.on("data", (part: Buffer) => parts.push(part));
+    stream.once("end", resolve);
+    stream.once("error", reject);
+  });
+  return parseChunkCopy(Buffer.concat(parts));
+}
+
+const isUuid = (s: string) => /^[0-9a-f]{8}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{12}$/i.test(s);
+
+const READ_PIECE_BYTES = 64 * 1024;
+
 const sleep = (ms: number) => new Promise((resolve) => setTimeout(resolve, ms));
 
 /**
@@ -216,25 +300,30 @@ export async function* readStagedUpload(
   uploadId: string,
   options: { pollMs?: number; stallMs?: number; batch?: number } = {},
 ): AsyncGenerator<Buffer> {
+  if (!isUuid(uploadId)) throw new StagedUploadAborted("The upload is no longer there.");
   const { sql } = getDatabase();
   const pollMs = options.pollMs ?? 50;
   const stallMs = options.stallMs ?? STAGING_STALL_MS;
-  const batch = options.batch ?? 4;
+  const batch = options.batch ?? 2;
   let next = 0;
   let waitingSince: number | null = null;
   let recheck = false;
+  let prefetched: Promise<{ seq: number; bytes: Buffer }[]> | null = null;
   for (;;) {
-    const rows = await sql<{ seq: number; bytes: Buffer }[]>`
-      select seq, bytes from dataset_upload_chunks where upload_id = ${uploadId} and seq >= ${next}
-      order by seq limit ${batch}`;
-    let progressed = false;
+    const rows = await (prefetched ?? readChunks(uploadId, next, batch));
+    prefetched = null;
+    const ready: Buffer[] = [];
     for (const row of rows) {
-      if (row.seq !== next) break; // a gap: the chunk before it is not committed yet
-      next++;
-      progressed = true;
-      yield row.bytes;
+      if (row.seq !== next + ready.length) break; // a gap: the chunk before it is not committed yet
+      ready.push(row.bytes);
     }
-    if (progressed) {
+    if (ready.length > 0) {
+      next += ready.length;
+      // the next batch is fetched while this one is parsed
+      prefetched = readChunks(uploadId, next, batch);
+      prefetched.catch(() => {});
+      // in pieces the size of a network read: the CSV reader parses in steps of what it is given
+      for (const bytes of ready) for (let at = 0; at < bytes.length; at += READ_PIECE_BYTES) yield bytes.subarray(at, at + READ_PIECE_BYTES);
       waitingSince = null;
       recheck = false;
       continue;

@@ -237,6 +237,11 @@ export type CreateDatasetInput = {
   /** The file size when known (Content-Length of the file part), for progress. */
   totalBytes?: number | null;
   onProgress?: (progress: UploadProgress) => void;
+  /**
+   * Writes the original file's rows of dataset_files itself, in the upload's transaction (e.g. copied
+   * inside PostgreSQL from a staged upload) instead of from the bytes read, which are then not kept.
+   */
+  storeOriginal?: (tx: postgres.TransactionSql, datasetId: string) => Promise<void>;
   /** Runs in the upload's transaction right before COMMIT (e.g. the audit entry); throwing rolls it all back. */
   beforeCommit?: (tx: postgres.TransactionSql, datasetId: string) => Promise<void>;
 };
@@ -307,7 +312,7 @@ export async function createDataset(input: CreateDatasetInput): Promise<CreateDa
 
   const hooks: PipelineHooks = {
     bytes: (chunk) => {
-      fileChunks.push(chunk);
+      if (!input.storeOriginal) fileChunks.push(chunk);
     },
     progress: (bytesRead, rowsParsed) => {
       progress.bytesRead = bytesRead;
@@ -388,9 +393,12 @@ export async function createDataset(input: CreateDatasetInput): Promise<CreateDa
         roles_assigned_by: ready ? input.userId : null,
         roles_assigned_at: ready ? new Date().toISOString() : null,
       })}`;
-    const files = await copyFrom(open.tx, "copy dataset_files (dataset_id, seq, bytes) from stdin (format binary)");
-    const pieces = [...encodeFileChunks(fileChunks, idBytes)];
-    await endCopy(open.tx, files, pieces);
+    if (input.storeOriginal) await input.storeOriginal(open.tx, datasetId);
+    else {
+      const files = await copyFrom(open.tx, "copy dataset_files (dataset_id, seq, bytes) from stdin (format binary)");
+      const pieces = [...encodeFileChunks(fileChunks, idBytes)];
+      await endCopy(open.tx, files, pieces);
+    }
 
     await open.tx`
       insert into dataset_columns ${open.tx(
