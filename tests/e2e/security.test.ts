@@ -1,0 +1,272 @@
+// Security properties of the running app (the production build under test):
+// - headers: every answer has nosniff, a Referrer-Policy, X-Frame-Options DENY, a Permissions-Policy and
+//   COOP; pages have a Content-Security-Policy with a fresh nonce per request (script-src 'nonce-…'
+//   'strict-dynamic', no 'unsafe-inline' or 'unsafe-eval' for scripts, frame-ancestors 'none') and every
+//   script tag carries that nonce; route handlers' answers a policy that allows nothing; HSTS only when
+//   the request came over TLS (X-Forwarded-Proto: https);
+// - in a real browser the signed-in pages run under that policy without a single violation (the inline
+//   bootstrap scripts and the chunks run: the page hydrates);
+// - same-origin check: a cookie-authenticated POST from another origin (Origin or Sec-Fetch-Site) is 403
+//   and changes nothing, while the same request from our origin works and Bearer calls are exempt; a server
+//   action posted with another Origin is refused by Next and does not run;
+// - cookie flags: the session cookie is HttpOnly and SameSite=Lax, not Secure over plain http, and
+//   `__Secure-` + Secure when the app is reached over https (Auth.js decides from the request's protocol);
+// - the client bundles (static chunks and prerendered pages of the build) contain no secret or server-only
+//   value: not AUTH_SECRET's or DATABASE_URL's value, no postgres:// URL, no SMTP password, no argon2 or
+//   database driver code.
+import { readdirSync, readFileSync, statSync } from "node:fs";
+import path from "node:path";
+import type { Browser } from "playwright-core";
+import type postgres from "postgres";
+import { afterAll, beforeAll, describe, expect, test } from "vitest";
+import { launch, openPage } from "./support/browser";
+import { e2e, url } from "./support/env";
+import { createTokenFor, demoAccountFor, signInAs, testDatabase } from "./support/sign-in";
+
+let sql: postgres.Sql;
+let browser: Browser;
+const origin = new URL(e2e.baseUrl).origin;
+
+beforeAll(async () => {
+  sql = testDatabase();
+  browser = await launch();
+});
+
+afterAll(async () => {
+  await sql`delete from api_tokens where name like 'security test%'`;
+  await sql.end();
+  await browser?.close();
+});
+
+const get = (path: string, headers: Record<string, string> = {}) => fetch(url(path), { headers, redirect: "manual" });
+
+function directives(policy: string | null): Map<string, string[]> {
+  const map = new Map<string, string[]>();
+  for (const part of (policy ?? "").split(";")) {
+    const [name, ...values] = part.trim().split(/\s+/);
+    if (name) map.set(name.toLowerCase(), values);
+  }
+  return map;
+}
+
+describe("headers", () => {
+  test("every answer (page, route handler, static file) carries nosniff, Referrer-Policy, X-Frame-Options, Permissions-Policy and COOP", async () => {
+    const login = await get("/login");
+    const html = await login.text();
+    const chunk = /src="(\/_next\/static\/chunks\/[^"]+\.js)"/.exec(html)?.[1];
+    expect(chunk, "a script chunk on /login").toBeTruthy();
+    for (const response of [login, await get("/api/health"), await get("/api/me"), await get(chunk!)]) {
+      expect(response.headers.get("x-content-type-options"), response.url).toBe("nosniff");
+      expect(response.headers.get("referrer-policy"), response.url).toBe("strict-origin-when-cross-origin");
+      expect(response.headers.get("x-frame-options"), response.url).toBe("DENY");
+      expect(response.headers.get("permissions-policy"), response.url).toMatch(/camera=\(\).*microphone=\(\).*geolocation=\(\)/);
+      expect(response.headers.get("cross-origin-opener-policy"), response.url).toBe("same-origin");
+      expect(response.headers.get("strict-transport-security"), `${response.url}: no HSTS over plain http`).toBeNull();
+    }
+  });
+
+  test("pages: a CSP with a fresh nonce on every script, no unsafe-inline/unsafe-eval for scripts, no framing", async () => {
+    const nonces: string[] = [];
+    for (let i = 0; i < 2; i++) {
+      const response = await get("/login");
+      const policy = directives(response.headers.get("content-security-policy"));
+      const scriptSrc = policy.get("script-src") ?? [];
+      const nonce = scriptSrc.find((value) => value.startsWith("'nonce-"))?.slice(7, -1);
+      expect(nonce, "script-src has a nonce").toBeTruthy();
+      expect(scriptSrc).toContain("'strict-dynamic'");
+      expect(scriptSrc).not.toContain("'unsafe-inline'");
+      expect(scriptSrc).not.toContain("'unsafe-eval'");
+      expect(policy.get("frame-ancestors")).toEqual(["'none'"]);
+      expect(policy.get("object-src")).toEqual(["'none'"]);
+      expect(policy.get("base-uri")).toEqual(["'self'"]);
+      expect(policy.get("default-src")).toEqual(["'self'"]);
+      const html = await response.text();
+      const scripts = [...html.matchAll(/<script\b[^>]*>/g)].map((m) => m[0]);
+      expect(scripts.length).toBeGreaterThan(0);
+      for (const tag of scripts) expect(tag, "every script tag carries the nonce").toContain(`nonce="${nonce}"`);
+      nonces.push(nonce!);
+    }
+    expect(nonces[0]).not.toBe(nonces[1]);
+  });
+
+  test("route handlers: a policy that allows nothing; HSTS only behind TLS", async () => {
+    const health = await get("/api/health");
+    expect(directives(health.headers.get("content-security-policy")).get("default-src")).toEqual(["'none'"]);
+    const overTls = await get("/login", { "x-forwarded-proto": "https" });
+    expect(overTls.headers.get("strict-transport-security")).toMatch(/^max-age=\d{7,}/);
+    expect(directives(overTls.headers.get("content-security-policy")).has("upgrade-insecure-requests")).toBe(true);
+    expect((await get("/api/health", { "x-forwarded-proto": "https" })).headers.get("strict-transport-security")).toMatch(/^max-age=/);
+  });
+
+  test("in the browser, the signed-in pages run under the CSP without a violation and hydrate", async () => {
+    const tab = await openPage(browser);
+    const violations: string[] = [];
+    await tab.context.exposeBinding("reportViolation", (_source, text: string) => violations.push(text));
+    await tab.context.addInitScript(() => {
+      document.addEventListener("securitypolicyviolation", (event) => {
+        (window as unknown as { reportViolation: (text: string) => void }).reportViolation(`${event.violatedDirective} ${event.blockedURI} on ${location.pathname}`);
+      });
+    });
+    try {
+      await signInAs(tab.page, "planner");
+      for (const pagePath of ["/", "/scenarios", "/fits", "/settings/tokens"]) {
+        await tab.page.goto(pagePath);
+        await tab.page.waitForLoadState("networkidle");
+        // The inline bootstrap ran (it defines self.__next_f) and the router is up: the page hydrated.
+        expect(await tab.page.evaluate(() => Array.isArray((self as unknown as { __next_f?: unknown[] }).__next_f)), pagePath).toBe(true);
+      }
+      // A client-side navigation works (needs the hydrated router and its chunks).
+      await tab.page.getByRole("link", { name: /scenarios/i }).first().click();
+      await tab.page.waitForURL((u) => u.pathname.startsWith("/scenarios"), { timeout: 15_000 });
+      expect(violations).toEqual([]);
+      expect(tab.errors.filter((error) => /content security policy/i.test(error))).toEqual([]);
+    } finally {
+      await tab.close();
+    }
+  });
+});
+
+describe("same-origin check on cookie-authenticated mutations", () => {
+  async function sessionCookie(): Promise<string> {
+    const tab = await openPage(browser);
+    try {
+      await signInAs(tab.page, "planner");
+      const cookies = await tab.context.cookies();
+      return cookies.map((c) => `${c.name}=${c.value}`).join("; ");
+    } finally {
+      await tab.close();
+    }
+  }
+  const tokenCount = async (name: string) => (await sql<{ n: number }[]>`select count(*)::int as n from api_tokens where name = ${name}`)[0].n;
+
+  test("a cross-site POST with the session cookie is 403 and creates nothing; the same from our origin works; Bearer calls are exempt", async () => {
+    const cookie = await sessionCookie();
+    const post = (name: string, headers: Record<string, string>) =>
+      fetch(url("/api/tokens"), { method: "POST", headers: { cookie, "content-type": "application/json", ...headers }, body: JSON.stringify({ name }), redirect: "manual" });
+
+    const evil = await post("security test evil", { origin: "https://evil.example" });
+    expect(evil.status).toBe(403);
+    expect(await evil.json()).toEqual({ error: "Cross-site requests may not change data.", details: [] });
+    const fetchSite = await post("security test fetch-site", { "sec-fetch-site": "cross-site" });
+    expect(fetchSite.status).toBe(403);
+    const sameSite = await post("security test same-site", { "sec-fetch-site": "same-site", origin: "http://other.localhost:3100" });
+    expect(sameSite.status).toBe(403);
+    expect(await tokenCount("security test evil")).toBe(0);
+    expect(await tokenCount("security test fetch-site")).toBe(0);
+    expect(await tokenCount("security test same-site")).toBe(0);
+
+    const ours = await post("security test ours", { origin, "sec-fetch-site": "same-origin" });
+    expect(ours.status, await ours.clone().text()).toBe(201);
+    expect(await tokenCount("security test ours")).toBe(1);
+
+    // A script with a Bearer token carries no ambient credentials: exempt, whatever Origin it claims.
+    const { token } = await createTokenFor(sql, "planner@larkspur.example", "larkspur", "security test bearer");
+    const bearer = await fetch(url("/api/tokens"), {
+      method: "POST",
+      headers: { authorization: `Bearer ${token}`, "content-type": "application/json", origin: "https://evil.example" },
+      body: JSON.stringify({ name: "security test via bearer" }),
+    });
+    expect(bearer.status).toBe(201);
+  });
+
+  test("a server action posted with another Origin is refused by Next and does not run (the same post from our origin does)", async () => {
+    const manifest = JSON.parse(readFileSync(path.join(process.env.NEXT_DIST_DIR || ".next-test", "server", "server-reference-manifest.json"), "utf8")) as {
+      node: Record<string, { exportedName?: string; filename?: string }>;
+    };
+    const actionId = Object.entries(manifest.node).find(([, entry]) => entry.exportedName === "createTokenAction")?.[0];
+    expect(actionId, "createTokenAction in the build's server-reference manifest").toBeTruthy();
+    const cookie = await sessionCookie();
+    const call = (name: string, headers: Record<string, string>) =>
+      fetch(url("/settings/tokens"), {
+        method: "POST",
+        headers: { cookie, "next-action": actionId!, "content-type": "text/plain;charset=UTF-8", accept: "text/x-component", ...headers },
+        // React's encodeReply of (previousState, { name }): plain JSON.
+        body: JSON.stringify([{ status: "idle" }, { name }]),
+        redirect: "manual",
+      });
+    const evil = await call("security test action evil", { origin: "https://evil.example" });
+    await evil.text();
+    expect(evil.status).toBeGreaterThanOrEqual(400);
+    expect(await tokenCount("security test action evil")).toBe(0);
+    const ours = await call("security test action ours", { origin });
+    expect(ours.status, await ours.text()).toBe(200);
+    expect(await tokenCount("security test action ours")).toBe(1);
+  });
+});
+
+describe("cookie flags", () => {
+  test("the session cookie is HttpOnly and SameSite=Lax (and not Secure over plain http)", async () => {
+    const tab = await openPage(browser);
+    try {
+      await signInAs(tab.page, "finance");
+      const session = (await tab.context.cookies()).find((c) => /^authjs\.session-token/.test(c.name));
+      expect(session).toMatchObject({ httpOnly: true, sameSite: "Lax", secure: false });
+    } finally {
+      await tab.close();
+    }
+  });
+
+  test("over https (X-Forwarded-Proto from a TLS proxy) it is __Secure- prefixed and Secure", async () => {
+    const headers = { "x-forwarded-proto": "https", "x-forwarded-host": new URL(e2e.baseUrl).host };
+    const csrf = await fetch(url("/api/auth/csrf"), { headers });
+    const csrfCookies = csrf.headers.getSetCookie();
+    const { csrfToken } = (await csrf.json()) as { csrfToken: string };
+    const account = demoAccountFor("finance");
+    const response = await fetch(url("/api/auth/callback/credentials"), {
+      method: "POST",
+      redirect: "manual",
+      headers: { ...headers, "content-type": "application/x-www-form-urlencoded", cookie: csrfCookies.map((c) => c.split(";")[0]).join("; ") },
+      body: new URLSearchParams({ csrfToken, email: account.email, password: account.password, callbackUrl: "/" }).toString(),
+    });
+    await response.body?.cancel();
+    for (const line of csrfCookies) expect(line, "CSRF cookie over https").toMatch(/;\s*Secure/i);
+    const session = response.headers.getSetCookie().find((line) => /^__Secure-authjs\.session-token=/.test(line));
+    expect(session, `Set-Cookie: ${response.headers.getSetCookie().join(" | ")}`).toBeTruthy();
+    expect(session).toMatch(/;\s*HttpOnly/i);
+    expect(session).toMatch(/;\s*Secure/i);
+    expect(session).toMatch(/;\s*SameSite=Lax/i);
+  });
+});
+
+describe("client bundles", () => {
+  function files(dir: string, keep: (name: string) => boolean): string[] {
+    const found: string[] = [];
+    for (const entry of readdirSync(dir, { withFileTypes: true })) {
+      const full = path.join(dir, entry.name);
+      if (entry.isDirectory()) found.push(...files(full, keep));
+      else if (keep(entry.name)) found.push(full);
+    }
+    return found;
+  }
+
+  test("no secret or server-only value in anything the browser can download", () => {
+    const distDir = process.env.NEXT_DIST_DIR || ".next-test";
+    const shipped = [
+      ...files(path.join(distDir, "static"), () => true),
+      // prerendered pages and their RSC payloads are sent as they are
+      ...files(path.join(distDir, "server", "app"), (name) => /\.(html|rsc|body)$/.test(name)),
+    ];
+    expect(shipped.length).toBeGreaterThan(10);
+    const secrets = [process.env.AUTH_SECRET, process.env.DATABASE_URL, process.env.SMTP_PASS].filter((value): value is string => Boolean(value && value.length >= 8));
+    expect(secrets.length, "AUTH_SECRET and DATABASE_URL are set for the run").toBeGreaterThanOrEqual(2);
+    const patterns: [string, RegExp][] = [
+      ["a postgres:// URL", /postgres(ql)?:\/\/[^\s"'`]*@/i],
+      ["argon2 code or a hash", /\$argon2(id|i|d)\$|@node-rs\/argon2/],
+      ["the database driver", /postgres\.js|drizzle-orm\/postgres-js|pg-boss/],
+      ["the SMTP client or its settings", /nodemailer|SMTP_PASS|SMTP_USER/],
+      ["server environment variable names", /\b(AUTH_SECRET|DATABASE_URL|NEXTAUTH_SECRET)\b/],
+      ["a private key", /-----BEGIN [A-Z ]*PRIVATE KEY-----/],
+    ];
+    const findings: string[] = [];
+    let bytes = 0;
+    for (const file of shipped) {
+      if (statSync(file).size > 20 * 1024 * 1024) continue;
+      const text = readFileSync(file, "latin1");
+      bytes += text.length;
+      for (const secret of secrets) if (text.includes(secret)) findings.push(`${file}: the value of a server secret`);
+      for (const [what, pattern] of patterns) if (pattern.test(text)) findings.push(`${file}: ${what} (${pattern.exec(text)?.[0]})`);
+    }
+    expect(findings).toEqual([]);
+    expect(bytes).toBeGreaterThan(100_000);
+  });
+});
