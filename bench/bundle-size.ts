@@ -5,7 +5,9 @@
 // `polyfillFiles` are nomodule scripts modern browsers skip, so they are not counted) plus every chunk the
 // page's client-reference manifest (server/app/**/page_client-reference-manifest.js, `entryJSFiles`) lists
 // for its entries: the root and nested layouts, the page, and the not-found/forbidden/error boundaries that
-// ship with it. Sizes are of the files on disk, raw and gzip-compressed (what `next start` sends).
+// ship with it. Sizes are of the files on disk, raw and gzip-compressed (what `next start` sends). Checked
+// against a served page: for /login this is exactly the set of <script src> in its HTML, minus the nomodule
+// polyfill.
 // Baseline: the framework's own chunks (rootMainFiles); ratio: page / framework.
 import { existsSync, readdirSync, readFileSync } from "node:fs";
 import path from "node:path";

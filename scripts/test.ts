@@ -48,6 +48,12 @@ class Tally {
   private printed = false;
   readonly notes: string[] = [];
 
+  /** A check outside vitest that passed (e.g. npm audit) counts as one passed test. */
+  pass(note: string): void {
+    this.passed += 1;
+    this.notes.push(note);
+  }
+
   /** A stage that could not produce test results counts as one failure. */
   fail(note: string): void {
     this.failed += 1;
@@ -103,6 +109,32 @@ function vitestArgs(config: string | null, report: string, extra: string[]): str
     "--passWithNoTests",
     ...extra,
   ];
+}
+
+/**
+ * `npm audit --omit=dev`: one counted check. A high or critical advisory in a production dependency fails
+ * it; none passes it. When the registry's audit endpoint cannot answer (offline, or a mirror without it),
+ * nothing is known: that is neither a pass nor a failure, and the summary says so in capitals.
+ */
+async function npmAudit(supervisor: Supervisor, tally: Tally): Promise<void> {
+  const report = path.join(DATA_DIR, "npm-audit.json");
+  const code = await supervisor.run({ name: "npm-audit", command: "bash", args: ["-c", `npm audit --omit=dev --json > ${report}`], console: "none" });
+  if (supervisor.isStopping) return;
+  let result: { metadata?: { vulnerabilities?: Record<string, number> }; vulnerabilities?: Record<string, { severity: string }>; message?: string; error?: { summary?: string } };
+  try {
+    result = JSON.parse(readFileSync(report, "utf8"));
+  } catch {
+    result = { message: `no JSON answer (exit code ${code}); see ${supervisor.logFile("npm-audit")}` };
+  }
+  const counts = result.metadata?.vulnerabilities;
+  if (!counts) {
+    tally.notes.push(`npm audit --omit=dev: NOT CHECKED — the registry's audit endpoint did not answer (${(result.message ?? result.error?.summary ?? "unknown error").slice(0, 160)})`);
+    return;
+  }
+  const serious = Object.entries(result.vulnerabilities ?? {}).filter(([, v]) => v.severity === "high" || v.severity === "critical");
+  const summary = ["critical", "high", "moderate", "low"].map((level) => `${counts[level] ?? 0} ${level}`).join(", ");
+  if (serious.length > 0) tally.fail(`npm audit --omit=dev: ${summary}: ${serious.map(([name, v]) => `${name} (${v.severity})`).join(", ")}`);
+  else tally.pass(`npm audit --omit=dev: no high or critical advisory (${summary})`);
 }
 
 async function main(): Promise<number> {
@@ -169,6 +201,8 @@ async function main(): Promise<number> {
   const interrupted = () => new Promise<number>(() => {}); // the signal handler prints and exits
 
   const started = Date.now();
+  // Runs beside the database and build steps; not with --only e2e or vitest filters (quick loops).
+  const audit = options.unit && options.vitestArgs.length === 0 ? npmAudit(supervisor, tally) : Promise.resolve();
   try {
     const ports = options.e2e
       ? [
@@ -243,6 +277,7 @@ async function main(): Promise<number> {
     tally.fail(error instanceof StepError ? error.message : String((error as Error).stack ?? error));
   }
 
+  await audit;
   await supervisor.stopAll();
   lock.release();
   tally.notes.push(`took ${Math.round((Date.now() - started) / 1000)} s; logs in ${logDir}/`);
