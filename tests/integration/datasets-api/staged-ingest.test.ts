@@ -56,14 +56,22 @@ async function* slowly(bytes: Buffer, size = 64 * 1024, every = 8, pauseMs = 5, 
   }
 }
 
-/** The newest dataset.ingest run of the workspace, once the route has queued it. */
-async function waitForJob(workspaceId: string, after: Date): Promise<string> {
+/** The ids of the workspace's dataset.ingest runs so far: the next upload's job is the one not among them. */
+async function ingestJobsSoFar(workspaceId: string): Promise<Set<string>> {
+  const rows = await getDatabase().sql<{ id: string }[]>`
+    select id from job_runs where workspace_id = ${workspaceId} and kind = 'dataset.ingest'`;
+  return new Set(rows.map((row) => row.id));
+}
+
+/** The dataset.ingest run the route queued, once it exists (not a run of an earlier test, however recent). */
+async function waitForJob(workspaceId: string, earlier: Set<string>): Promise<string> {
   const { sql } = getDatabase();
   for (let i = 0; i < 400; i++) {
-    const [row] = await sql<{ id: string }[]>`
-      select id from job_runs where workspace_id = ${workspaceId} and kind = 'dataset.ingest' and created_at >= ${after.toISOString()}
-      order by created_at desc limit 1`;
-    if (row) return row.id;
+    const rows = await sql<{ id: string }[]>`
+      select id from job_runs where workspace_id = ${workspaceId} and kind = 'dataset.ingest'`;
+    const fresh = rows.filter((row) => !earlier.has(row.id));
+    if (fresh.length > 1) throw new Error(`the route queued ${fresh.length} jobs for one upload`);
+    if (fresh.length === 1) return fresh[0].id;
     await new Promise((resolve) => setTimeout(resolve, 25));
   }
   throw new Error("the route queued no job");
@@ -79,13 +87,13 @@ describe("a large upload through the route and the dataset.ingest job", () => {
     const file = bigCsv(70_000);
     expect(file.length).toBeGreaterThan(5 * 1024 * 1024); // over the inline limit
     const before = await uploadFootprint(team.workspace.id);
-    const started = new Date(Date.now() - 1000);
+    const earlier = await ingestJobsSoFar(team.workspace.id);
     const query = `filename=big.csv&name=Big%20history&options=${encodeURIComponent(JSON.stringify({ roles }))}`;
     const responding = upload(
       streamingRequest(team.tokens.analyst, slowly(file), { "content-type": "text/csv", "content-length": String(file.length) }, query),
       routeContext(),
     );
-    const jobId = await waitForJob(team.workspace.id, started);
+    const jobId = await waitForJob(team.workspace.id, earlier);
     // the worker starts on it while the file is still arriving
     const ingesting = runIngestJob(jobId);
     const response = await responding;
@@ -127,13 +135,13 @@ describe("a large upload through the route and the dataset.ingest job", () => {
       return line;
     });
     const before = await uploadFootprint(team.workspace.id);
-    const started = new Date(Date.now() - 1000);
+    const earlier = await ingestJobsSoFar(team.workspace.id);
     const query = `filename=bad.csv&options=${encodeURIComponent(JSON.stringify({ roles }))}`;
     const responding = upload(
       streamingRequest(team.tokens.analyst, slowly(file), { "content-type": "text/csv", "content-length": String(file.length) }, query),
       routeContext(),
     );
-    const jobId = await waitForJob(team.workspace.id, started);
+    const jobId = await waitForJob(team.workspace.id, earlier);
     const outcome = await runIngestJob(jobId);
     expect((await responding).status).toBe(202);
     expect(outcome.ok).toBe(false);
@@ -151,12 +159,12 @@ describe("a large upload through the route and the dataset.ingest job", () => {
   it("stores nothing when the client goes away mid-upload (the job fails, staging is emptied)", async () => {
     const file = bigCsv(70_000);
     const before = await uploadFootprint(team.workspace.id);
-    const started = new Date(Date.now() - 1000);
+    const earlier = await ingestJobsSoFar(team.workspace.id);
     const responding = upload(
       streamingRequest(team.tokens.analyst, slowly(file, 64 * 1024, 8, 5, 3 * 1024 * 1024), { "content-type": "text/csv", "content-length": String(file.length) }),
       routeContext(),
     );
-    const jobId = await waitForJob(team.workspace.id, started);
+    const jobId = await waitForJob(team.workspace.id, earlier);
     const ingesting = runIngestJob(jobId);
     const response = await responding;
     expect(response.status).toBeGreaterThanOrEqual(400); // nobody is there to read it
@@ -168,15 +176,26 @@ describe("a large upload through the route and the dataset.ingest job", () => {
 
   it("lets the job stop early on a hopeless file while it still arrives; the route still answers 202", async () => {
     // an unclosed quote in row 1 makes the rest of the file one endless cell: reading stops at 4 MB
-    const file = Buffer.concat([Buffer.from(HEADER + '1990-01-01,"5000,1,2,3,4,5,6,7,8,9,10\n'), bigCsv(90_000).subarray(HEADER.length)]);
+    const file = Buffer.concat([Buffer.from(HEADER + '1990-01-01,"5000,1,2,3,4,5,6,7,8,9,10\n'), bigCsv(150_000).subarray(HEADER.length)]);
     const before = await uploadFootprint(team.workspace.id);
-    const started = new Date(Date.now() - 1000);
+    const earlier = await ingestJobsSoFar(team.workspace.id);
+    // the client sends 9 MB (two staged chunks of 4 MB and a part), then holds the rest back until the job has
+    // given up: a slow uplink, made certain
+    let jobDone!: () => void;
+    const jobGaveUp = new Promise<void>((resolve) => (jobDone = resolve));
+    async function* heldBack(): AsyncGenerator<Uint8Array> {
+      const head = 9 * 1024 * 1024;
+      yield* slowly(file.subarray(0, head), 64 * 1024, 4, 10);
+      await jobGaveUp;
+      yield* slowly(file.subarray(head), 64 * 1024, 4, 10);
+    }
     const responding = upload(
-      streamingRequest(team.tokens.analyst, slowly(file, 64 * 1024, 4, 10), { "content-type": "text/csv", "content-length": String(file.length) }, "filename=quote.csv"),
+      streamingRequest(team.tokens.analyst, heldBack(), { "content-type": "text/csv", "content-length": String(file.length) }, "filename=quote.csv"),
       routeContext(),
     );
-    const jobId = await waitForJob(team.workspace.id, started);
+    const jobId = await waitForJob(team.workspace.id, earlier);
     const outcome = await runIngestJob(jobId);
+    jobDone();
     expect(outcome.ok).toBe(false);
     if (outcome.ok) return;
     expect(outcome.details[0]).toMatchObject({ kind: "row-too-long", line: 2 });
