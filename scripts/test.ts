@@ -11,9 +11,12 @@ import { assertPortsFree, buildIfNeeded, pgEnv, prepareDatabase, startAppProcess
 import { Supervisor } from "./supervisor";
 
 const DATA_DIR = ".data-test";
-const PG_PORT = "54339";
-const WEB_PORT = "3100";
-const SMTP_PORT = "2535";
+// Fixed so that a test run never collides with `npm start`; TEST_PORT_OFFSET (e.g. 10) moves all three for a
+// second checkout testing on the same machine.
+const PORT_OFFSET = Number(process.env.TEST_PORT_OFFSET ?? 0) || 0;
+const PG_PORT = String(54339 + PORT_OFFSET);
+const WEB_PORT = String(3100 + PORT_OFFSET);
+const SMTP_PORT = String(2535 + PORT_OFFSET);
 /** Integration tests get their own copy of the migrated, seeded database; the e2e app keeps `tributary`. */
 const INTEGRATION_DB = "tributary_it";
 

@@ -149,7 +149,7 @@ describe("same-origin check on cookie-authenticated mutations", () => {
     expect(await evil.json()).toEqual({ error: "Cross-site requests may not change data.", details: [] });
     const fetchSite = await post("security test fetch-site", { "sec-fetch-site": "cross-site" });
     expect(fetchSite.status).toBe(403);
-    const sameSite = await post("security test same-site", { "sec-fetch-site": "same-site", origin: "http://other.localhost:3100" });
+    const sameSite = await post("security test same-site", { "sec-fetch-site": "same-site", origin: `http://other.${new URL(e2e.baseUrl).host}` });
     expect(sameSite.status).toBe(403);
     expect(await tokenCount("security test evil")).toBe(0);
     expect(await tokenCount("security test fetch-site")).toBe(0);
