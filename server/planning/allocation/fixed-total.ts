@@ -1,8 +1,8 @@
 import { capacity, distributeProportionally, type Slot } from "./distribute";
 import { plainCentsFormatter } from "./money";
-import { clampToOwnBounds } from "./own-bounds";
+import { beginMove } from "./own-bounds";
 import { describeBlockers, findBlockers, othersExhaustedMessage } from "./reasons";
-import { channelIndex, highOf, lowOf, unknownChannel, withAmounts } from "./state";
+import { highOf, lowOf, withAmounts } from "./state";
 import type { AllocationChannel, AllocationResult, AllocationState, ClampReason, EditOptions } from "./types";
 
 /** The unlocked channels other than `exceptIndex`, as redistribution slots. */
@@ -36,15 +36,11 @@ export function rebalanceFixedTotal(
   requestedCents: number,
   options: EditOptions = {},
 ): AllocationResult {
-  const format = options.format ?? plainCentsFormatter;
-  const index = channelIndex(state, channelName);
-  if (index < 0) return { state, reason: unknownChannel(channelName) };
-  const channel = state.channels[index];
-  const own = clampToOwnBounds(channel, requestedCents, format);
-  if (!own.ok) return { state, reason: own.reason };
-
-  let target = own.targetCents;
-  let reason: ClampReason | undefined = own.reason;
+  const begun = beginMove(state, channelName, requestedCents, options);
+  if ("done" in begun) return begun.done;
+  const { format, index, channel } = begun.move;
+  let target = begun.move.targetCents;
+  let reason: ClampReason | undefined = begun.move.reason;
   const others = unlockedSlots(state.channels, index);
   const slots = others.map((other) => other.slot);
   const othersDelta = channel.amountCents - target;

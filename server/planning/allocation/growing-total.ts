@@ -1,9 +1,9 @@
 import { capacity, distributeProportionally } from "./distribute";
 import { unlockedSlots } from "./fixed-total";
 import { plainCentsFormatter } from "./money";
-import { clampToOwnBounds } from "./own-bounds";
+import { beginMove } from "./own-bounds";
 import { describeBlockers, findBlockers, othersExhaustedMessage } from "./reasons";
-import { channelIndex, unknownChannel, withAmounts } from "./state";
+import { withAmounts } from "./state";
 import type { AllocationResult, AllocationState, ClampReason, EditOptions } from "./types";
 
 /** Money the total can still grow by before it reaches the ceiling (never negative). */
@@ -30,15 +30,11 @@ export function adjustGrowingTotal(
   requestedCents: number,
   options: EditOptions = {},
 ): AllocationResult {
-  const format = options.format ?? plainCentsFormatter;
-  const index = channelIndex(state, channelName);
-  if (index < 0) return { state, reason: unknownChannel(channelName) };
-  const channel = state.channels[index];
-  const own = clampToOwnBounds(channel, requestedCents, format);
-  if (!own.ok) return { state, reason: own.reason };
-
-  let target = own.targetCents;
-  let reason: ClampReason | undefined = own.reason;
+  const begun = beginMove(state, channelName, requestedCents, options);
+  if ("done" in begun) return begun.done;
+  const { format, index, channel } = begun.move;
+  let target = begun.move.targetCents;
+  let reason: ClampReason | undefined = begun.move.reason;
   const amounts = state.channels.map((c) => c.amountCents);
   const delta = target - channel.amountCents;
 
