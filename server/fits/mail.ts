@@ -1,14 +1,12 @@
 import "server-only";
 import { listMembersByWorkspaceId } from "@/server/data/members";
 import { getUserById } from "@/server/data/users";
-import { appOrigin } from "@/server/http/origin";
+import { escapeHtml } from "@/server/mail/html";
+import { absoluteLink } from "@/server/mail/links";
 import { sendMail, type OutgoingMail } from "@/server/mail/transport";
 import type { FitStatus } from "./types";
 
 export type FitTransition = "submitted" | "approved" | "changes_requested" | "retired";
-
-const escapeHtml = (text: string) =>
-  text.replace(/[&<>"']/g, (c) => ({ "&": "&amp;", "<": "&lt;", ">": "&gt;", '"': "&quot;", "'": "&#39;" })[c]!);
 
 const headlines: Record<FitTransition, (name: string, actor: string) => string> = {
   submitted: (name, actor) => `${actor} sent the fit “${name}” for review.`,
@@ -23,17 +21,6 @@ const subjects: Record<FitTransition, (name: string) => string> = {
   changes_requested: (name) => `Changes requested on fit: ${name}`,
   retired: (name) => `Fit retired: ${name}`,
 };
-
-async function linkTo(path: string): Promise<string> {
-  let origin: string;
-  try {
-    origin = await appOrigin();
-  } catch {
-    // Outside a request (worker, seed, tests) there are no headers to read.
-    origin = process.env.APP_URL ? new URL(process.env.APP_URL).origin : "http://localhost:3000";
-  }
-  return `${origin}${path}`;
-}
 
 export function fitTransitionMail(input: {
   to: string[];
@@ -94,7 +81,7 @@ export async function notifyFitTransition(input: {
         actorName: input.actorName,
         workspaceName: input.workspaceName,
         comment: input.comment,
-        link: await linkTo(`/fits/${input.fitId}`),
+        link: await absoluteLink(`/fits/${input.fitId}`),
       }),
     );
     return { to };

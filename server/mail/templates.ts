@@ -1,10 +1,8 @@
 import "server-only";
 import type { Role } from "@/db/schema";
 import { roleLabels } from "@/server/authz/roles";
+import { escapeHtml } from "@/server/mail/html";
 import type { OutgoingMail } from "@/server/mail/transport";
-
-const escapeHtml = (text: string) =>
-  text.replace(/[&<>"']/g, (c) => ({ "&": "&amp;", "<": "&lt;", ">": "&gt;", '"': "&quot;", "'": "&#39;" })[c]!);
 
 function listRoles(roles: Role[]): string {
   const labels = roles.map((role) => roleLabels[role].toLowerCase());

@@ -1,21 +1,7 @@
 import "server-only";
-import { appOrigin } from "@/server/http/origin";
+import { escapeHtml } from "@/server/mail/html";
+import { absoluteLink } from "@/server/mail/links";
 import { sendMail } from "@/server/mail/transport";
-
-const escapeHtml = (text: string) =>
-  text.replace(/[&<>"']/g, (c) => ({ "&": "&amp;", "<": "&lt;", ">": "&gt;", '"': "&quot;", "'": "&#39;" })[c]!);
-
-/** An absolute link for an e-mail: APP_URL (or the request's origin) + an app path. */
-export async function absoluteLink(path: string): Promise<string> {
-  let origin: string;
-  try {
-    origin = await appOrigin();
-  } catch {
-    // Outside a request (tests, scripts) there are no headers to read.
-    origin = process.env.APP_URL ? new URL(process.env.APP_URL).origin : "http://localhost:3000";
-  }
-  return `${origin}${path}`;
-}
 
 export type ReviewMail = {
   to: string;
