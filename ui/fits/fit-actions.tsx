@@ -1,10 +1,11 @@
 "use client";
 import { useRouter } from "next/navigation";
 import { useState, useTransition } from "react";
+import { ApiErrorBox, type ApiErrorBody } from "@/ui/api-error-box";
 import { buttonClass } from "@/ui/button-class";
 import type { FitAction } from "@/server/fits/workflow";
 
-type ApiError = { error: string; details?: { path?: string; message: string }[] };
+type ApiError = ApiErrorBody;
 
 const endpoints: Record<FitAction, { path: string; body: (comment: string) => object; label: string; pending: string }> = {
   submit: { path: "submit", body: (comment) => (comment ? { comment } : {}), label: "Send for review", pending: "Sending…" },
@@ -88,18 +89,7 @@ export function FitActions(props: { fitId: string; actions: FitAction[]; selfApp
           You built this fit, so someone else must approve it (separation of duties). You can still request changes or retire it.
         </p>
       ) : null}
-      {error ? (
-        <div role="alert" className="rounded-md border-l-4 border-ember bg-white px-3 py-2 text-sm text-slate-900">
-          <p className="font-medium text-ember">{error.error}</p>
-          {error.details?.length ? (
-            <ul className="mt-1 list-disc pl-5">
-              {error.details.map((detail, index) => (
-                <li key={index}>{detail.message}</li>
-              ))}
-            </ul>
-          ) : null}
-        </div>
-      ) : null}
+      {error ? <ApiErrorBox error={error} /> : null}
     </div>
   );
 }

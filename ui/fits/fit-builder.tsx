@@ -2,6 +2,7 @@
 import { useRouter } from "next/navigation";
 import { useMemo, useState } from "react";
 import { defaultNeweyWestLag } from "@/server/stats";
+import { ApiErrorBox, type ApiErrorBody } from "@/ui/api-error-box";
 import { buttonClass } from "@/ui/button-class";
 
 export type BuilderColumn = { name: string; role: string | null; unit: string | null };
@@ -18,7 +19,7 @@ export type BuilderInitial = {
   covariance: { type: "classical" | "hc3" | "newey-west"; lag?: number };
 };
 
-type ApiError = { error: string; details?: { path?: string; message: string; term?: string }[] };
+type ApiError = ApiErrorBody;
 type JobView = { id: string; status: string; progress: { phase: string; done: number; total: number | null } | null };
 
 /** Default request for a dataset: its outcome, every spend channel (linear) and every control. */
@@ -431,18 +432,7 @@ export function FitBuilder(props: {
             </div>
           ) : null}
         </div>
-        {error ? (
-          <div role="alert" className="rounded-lg border-l-4 border-ember bg-white p-4 text-sm shadow-sm" data-testid="fit-error">
-            <p className="font-semibold text-ember">{error.error}</p>
-            {error.details?.length ? (
-              <ul className="mt-2 list-disc space-y-1 pl-5 text-slate-800">
-                {error.details.map((detail, index) => (
-                  <li key={index}>{detail.message}</li>
-                ))}
-              </ul>
-            ) : null}
-          </div>
-        ) : null}
+        {error ? <ApiErrorBox error={error} className="rounded-lg p-4 shadow-sm" testId="fit-error" /> : null}
       </aside>
     </form>
   );
