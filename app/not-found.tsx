@@ -1,6 +1,10 @@
 import Link from "next/link";
+import { connection } from "next/server";
 
-export default function NotFound() {
+export default async function NotFound() {
+  // Rendered per request, not prebuilt: the page's scripts then carry the request's CSP nonce (proxy.ts)
+  // and run, like every other page's.
+  await connection();
   return (
     <main className="mx-auto flex min-h-[60vh] max-w-xl flex-col justify-center px-4 py-12">
       <p className="text-sm font-medium uppercase tracking-wide text-slate-600">404</p>

@@ -5,12 +5,14 @@
 //   script tag carries that nonce; route handlers' answers a policy that allows nothing; HSTS only when
 //   the request came over TLS (X-Forwarded-Proto: https);
 // - in a real browser the signed-in pages run under that policy without a single violation (the inline
-//   bootstrap scripts and the chunks run: the page hydrates);
+//   bootstrap scripts and the chunks run: the page hydrates); so does the 404 page of a missing URL
+//   (rendered per request, so it has the nonce too);
 // - same-origin check: a cookie-authenticated POST from another origin (Origin or Sec-Fetch-Site) is 403
 //   and changes nothing, while the same request from our origin works and Bearer calls are exempt; a server
 //   action posted with another Origin is refused by Next and does not run;
 // - cookie flags: the session cookie is HttpOnly and SameSite=Lax, not Secure over plain http, and
 //   `__Secure-` + Secure when the app is reached over https (Auth.js decides from the request's protocol);
+//   the `tributary-workspace` cookie is HttpOnly, SameSite=Lax, path / and Secure by the same rule;
 // - the client bundles (static chunks and prerendered pages of the build) contain no secret or server-only
 //   value: not AUTH_SECRET's or DATABASE_URL's value, no postgres:// URL, no SMTP password, no argon2 or
 //   database driver code.
@@ -39,6 +41,14 @@ afterAll(async () => {
 });
 
 const get = (path: string, headers: Record<string, string> = {}) => fetch(url(path), { headers, redirect: "manual" });
+
+/** The build's server actions by id (server-reference manifest). */
+function serverActions(): Record<string, { exportedName?: string; filename?: string }> {
+  const manifest = JSON.parse(readFileSync(path.join(process.env.NEXT_DIST_DIR || ".next-test", "server", "server-reference-manifest.json"), "utf8")) as {
+    node: Record<string, { exportedName?: string; filename?: string }>;
+  };
+  return manifest.node;
+}
 
 function directives(policy: string | null): Map<string, string[]> {
   const map = new Map<string, string[]>();
@@ -126,6 +136,43 @@ describe("headers", () => {
   });
 });
 
+describe("the 404 page", () => {
+  test("is rendered per request: its scripts carry the nonce, and in the browser it runs without a violation and hydrates", async () => {
+    const response = await get("/no-such-page-here");
+    expect(response.status).toBe(404);
+    const nonce = (directives(response.headers.get("content-security-policy")).get("script-src") ?? []).find((value) => value.startsWith("'nonce-"))?.slice(7, -1);
+    expect(nonce, "script-src has a nonce").toBeTruthy();
+    const scripts = [...(await response.text()).matchAll(/<script\b[^>]*>/g)].map((m) => m[0]);
+    expect(scripts.length).toBeGreaterThan(0);
+    for (const tag of scripts) expect(tag, "every script tag of the 404 page carries the nonce").toContain(`nonce="${nonce}"`);
+
+    const tab = await openPage(browser);
+    const violations: string[] = [];
+    await tab.context.exposeBinding("reportViolation", (_source, text: string) => violations.push(text));
+    await tab.context.addInitScript(() => {
+      document.addEventListener("securitypolicyviolation", (event) => {
+        (window as unknown as { reportViolation: (text: string) => void }).reportViolation(`${event.violatedDirective} ${event.blockedURI} on ${location.pathname}`);
+      });
+    });
+    try {
+      const page = await tab.page.goto("/no-such-page-here/either");
+      expect(page?.status()).toBe(404);
+      await tab.page.waitForLoadState("networkidle");
+      await expect(tab.page.getByRole("heading", { name: "Nothing here" }).isVisible()).resolves.toBe(true);
+      // The inline bootstrap ran (self.__next_f) and React hydrated the page (its fiber on the DOM node).
+      expect(await tab.page.evaluate(() => Array.isArray((self as unknown as { __next_f?: unknown[] }).__next_f))).toBe(true);
+      await tab.page.waitForFunction(() => {
+        const main = document.querySelector("main");
+        return main !== null && Object.keys(main).some((key) => key.startsWith("__reactFiber"));
+      });
+      expect(violations).toEqual([]);
+      expect(tab.errors.filter((error) => /content security policy|refused to execute/i.test(error))).toEqual([]);
+    } finally {
+      await tab.close();
+    }
+  });
+});
+
 describe("same-origin check on cookie-authenticated mutations", () => {
   async function sessionCookie(): Promise<string> {
     const tab = await openPage(browser);
@@ -170,10 +217,7 @@ describe("same-origin check on cookie-authenticated mutations", () => {
   });
 
   test("a server action posted with another Origin is refused by Next and does not run (the same post from our origin does)", async () => {
-    const manifest = JSON.parse(readFileSync(path.join(process.env.NEXT_DIST_DIR || ".next-test", "server", "server-reference-manifest.json"), "utf8")) as {
-      node: Record<string, { exportedName?: string; filename?: string }>;
-    };
-    const actionId = Object.entries(manifest.node).find(([, entry]) => entry.exportedName === "createTokenAction")?.[0];
+    const actionId = Object.entries(serverActions()).find(([, entry]) => entry.exportedName === "createTokenAction")?.[0];
     expect(actionId, "createTokenAction in the build's server-reference manifest").toBeTruthy();
     const cookie = await sessionCookie();
     const call = (name: string, headers: Record<string, string>) =>
@@ -195,12 +239,33 @@ describe("same-origin check on cookie-authenticated mutations", () => {
 });
 
 describe("cookie flags", () => {
-  test("the session cookie is HttpOnly and SameSite=Lax (and not Secure over plain http)", async () => {
+  /** Posts the header's workspace switch the way a browser without JavaScript does; returns the workspace cookie's Set-Cookie. */
+  async function switchWorkspace(cookie: string, headers: Record<string, string> = {}): Promise<string | undefined> {
+    const actionId = Object.entries(serverActions()).find(([, entry]) => entry.exportedName === "switchWorkspaceAction" && entry.filename?.includes("(app)/actions"))?.[0];
+    expect(actionId, "switchWorkspaceAction in the build's server-reference manifest").toBeTruthy();
+    const form = new FormData();
+    form.set(`$ACTION_ID_${actionId}`, "");
+    form.set("workspace", "larkspur");
+    const response = await fetch(url("/"), { method: "POST", redirect: "manual", headers: { cookie, origin, ...headers }, body: form });
+    await response.body?.cancel();
+    const line = response.headers.getSetCookie().find((entry) => entry.startsWith("tributary-workspace="));
+    expect(line, `status ${response.status}, Set-Cookie: ${response.headers.getSetCookie().join(" | ")}`).toBeTruthy();
+    return line;
+  }
+
+  test("the session cookie is HttpOnly and SameSite=Lax (and not Secure over plain http); so is the workspace cookie", async () => {
     const tab = await openPage(browser);
     try {
       await signInAs(tab.page, "finance");
-      const session = (await tab.context.cookies()).find((c) => /^authjs\.session-token/.test(c.name));
+      const cookies = await tab.context.cookies();
+      const session = cookies.find((c) => /^authjs\.session-token/.test(c.name));
       expect(session).toMatchObject({ httpOnly: true, sameSite: "Lax", secure: false });
+      const workspace = await switchWorkspace(cookies.map((c) => `${c.name}=${c.value}`).join("; "));
+      expect(workspace).toMatch(/^tributary-workspace=larkspur;/);
+      expect(workspace).toMatch(/;\s*HttpOnly/i);
+      expect(workspace).toMatch(/;\s*SameSite=Lax/i);
+      expect(workspace).toMatch(/;\s*Path=\/(;|$)/i);
+      expect(workspace).not.toMatch(/;\s*Secure/i);
     } finally {
       await tab.close();
     }
@@ -225,6 +290,14 @@ describe("cookie flags", () => {
     expect(session).toMatch(/;\s*HttpOnly/i);
     expect(session).toMatch(/;\s*Secure/i);
     expect(session).toMatch(/;\s*SameSite=Lax/i);
+
+    // The workspace cookie follows the same rule: Secure behind TLS.
+    const workspace = await switchWorkspace(session!.split(";")[0], headers);
+    expect(workspace).toMatch(/^tributary-workspace=larkspur;/);
+    expect(workspace).toMatch(/;\s*HttpOnly/i);
+    expect(workspace).toMatch(/;\s*Secure/i);
+    expect(workspace).toMatch(/;\s*SameSite=Lax/i);
+    expect(workspace).toMatch(/;\s*Path=\/(;|$)/i);
   });
 });
 
