@@ -1,7 +1,7 @@
 "use client";
 
 import dynamic from "next/dynamic";
-import { memo, useCallback, useMemo, useRef, useState } from "react";
+import { memo, useCallback, useEffect, useMemo, useRef, useState } from "react";
 import { type AllocationState, allocationPerHorizon, amountToCents, centsToAmount, formatCents, type MoneyLocale } from "@/server/planning/allocation";
 import type { PlanShape } from "@/server/predict/plan-shape";
 import { channelWarningSentences } from "@/server/predict/channel-warnings";
@@ -14,11 +14,14 @@ import { ApiError, scenarioApi } from "./api";
 import { shiftShare } from "./cautions";
 import { ControlsPanel } from "./controls-panel";
 import { formatDateTime } from "./format";
-
-export { allocationFromPlan } from "./room-plan";
 import { OutcomePanel } from "./outcome-panel";
 import { allocationFromPlan, planOf } from "./room-plan";
 import { useScenarioPrediction } from "./use-scenario-prediction";
+
+export { allocationFromPlan } from "./room-plan";
+
+/** The version list is read again when the tab comes back after at least this long (others may have saved). */
+const VERSIONS_FRESH_MS = 5_000;
 
 // Loaded after the first paint (their chunks are not part of the page's first load): the suggestion
 // panel, the response curves below the fold (with the chart library) and the version drawer (only once
@@ -104,6 +107,7 @@ export function ScenarioRoom({ scenario, fit, initialVersion, initialOutcome, mo
   const [conflict, setConflict] = useState<Conflict | null>(null);
 
   const [versionList, setVersionList] = useState(scenario.versions);
+  const versionsReadAt = useRef(0);
   /** Versions already fetched (a saved version never changes). */
   const fetchedVersions = useRef(new Map<number, VersionDto>());
 
@@ -125,9 +129,23 @@ export function ScenarioRoom({ scenario, fit, initialVersion, initialOutcome, mo
 
   const refreshVersions = useCallback(async () => {
     const list = await scenarioApi.versions(scenario.id);
+    versionsReadAt.current = Date.now();
     setVersionList(list);
     return list;
   }, [scenario.id]);
+
+  useEffect(() => {
+    versionsReadAt.current = Date.now();
+    const onVisible = () => {
+      if (document.visibilityState === "visible" && Date.now() - versionsReadAt.current >= VERSIONS_FRESH_MS) refreshVersions().catch(() => {});
+    };
+    window.addEventListener("focus", onVisible);
+    document.addEventListener("visibilitychange", onVisible);
+    return () => {
+      window.removeEventListener("focus", onVisible);
+      document.removeEventListener("visibilitychange", onVisible);
+    };
+  }, [refreshVersions]);
 
   const handleError = useCallback((error: unknown) => {
     if (error instanceof ApiError && error.status === 409 && error.details.some((detail) => "latestVersion" in detail)) {
