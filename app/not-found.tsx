@@ -1,4 +1,3 @@
-import Link from "next/link";
 import { connection } from "next/server";
 
 export default async function NotFound() {
@@ -11,7 +10,8 @@ export default async function NotFound() {
       <h1 className="mt-2 text-2xl font-semibold text-river">Nothing here</h1>
       <p className="mt-3 text-slate-700">This page does not exist, or it belongs to another workspace.</p>
       <p className="mt-6">
-        <Link href="/" className="font-medium text-shallows underline-offset-2 hover:underline">Back to home</Link>
+        {/* A plain link: next/link here would ship its client code with every page, as these boundaries do. */}
+        <a href="/" className="font-medium text-shallows underline-offset-2 hover:underline">Back to home</a>
       </p>
     </main>
   );
