@@ -5,7 +5,8 @@
 //   script tag carries that nonce; route handlers' answers a policy that allows nothing; HSTS only when
 //   the request came over TLS (X-Forwarded-Proto: https);
 // - in a real browser the signed-in pages run under that policy without a single violation (the inline
-//   bootstrap scripts and the chunks run: the page hydrates); so does the 404 page of a missing URL
+//   bootstrap scripts and the chunks run: the page hydrates), the scenario room with the parts it loads
+//   after the first paint too; so does the 404 page of a missing URL
 //   (rendered per request, so it has the nonce too);
 // - same-origin check: a cookie-authenticated POST from another origin (Origin or Sec-Fetch-Site) is 403
 //   and changes nothing, while the same request from our origin works and Bearer calls are exempt; a server
@@ -36,9 +37,26 @@ beforeAll(async () => {
 
 afterAll(async () => {
   await sql`delete from api_tokens where name like 'security test%'`;
+  await sql`delete from scenarios where name = 'security test room'`.catch(() => {});
   await sql.end();
   await browser?.close();
 });
+
+/** A scenario on Larkspur's approved fit, started through the API (removed again after the tests). */
+async function scenarioForRoom(): Promise<string> {
+  const [fit] = await sql<{ id: string }[]>`
+    select f.id from fits f join workspaces w on w.id = f.workspace_id
+    where w.slug = 'larkspur' and f.status = 'approved' order by f.approved_at limit 1`;
+  expect(fit, "an approved fit in Larkspur Outfitters").toBeTruthy();
+  const { token } = await createTokenFor(sql, "planner@larkspur.example", "larkspur", "security test room");
+  const response = await fetch(url("/api/scenarios"), {
+    method: "POST",
+    headers: { authorization: `Bearer ${token}`, "content-type": "application/json" },
+    body: JSON.stringify({ fitId: fit.id, name: "security test room" }),
+  });
+  expect(response.status, await response.clone().text()).toBe(201);
+  return ((await response.json()) as { id: string }).id;
+}
 
 const get = (path: string, headers: Record<string, string> = {}) => fetch(url(path), { headers, redirect: "manual" });
 
@@ -128,6 +146,18 @@ describe("headers", () => {
       // A client-side navigation works (needs the hydrated router and its chunks).
       await tab.page.getByRole("link", { name: /scenarios/i }).first().click();
       await tab.page.waitForURL((u) => u.pathname.startsWith("/scenarios"), { timeout: 15_000 });
+
+      // The scenario room loads parts after the first paint (preview engine, suggestion panel, response
+      // curves, version drawer, finance review): chunks the nonce'd bootstrap imports, allowed by 'strict-dynamic'.
+      const scenarioId = await scenarioForRoom();
+      await tab.page.goto(`/scenarios/${scenarioId}`);
+      await tab.page.locator('[data-testid="outcome-panel"][data-source="server"]').waitFor();
+      await tab.page.getByTestId("response-curves").getByTestId("response-curve").first().waitFor();
+      await tab.page.getByTestId("suggest-panel").waitFor();
+      await tab.page.getByTestId("scenario-signoff-status").waitFor();
+      await tab.page.getByRole("button", { name: /Version history/ }).click();
+      await tab.page.getByTestId("version-drawer").waitFor();
+      await tab.page.waitForLoadState("networkidle");
       expect(violations).toEqual([]);
       expect(tab.errors.filter((error) => /content security policy/i.test(error))).toEqual([]);
     } finally {
