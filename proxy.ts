@@ -8,9 +8,8 @@
 //
 // Also the pages' Content-Security-Policy with a fresh nonce per request: Next reads the nonce from the
 // request's CSP header and puts it on its own scripts, so no inline script runs without it. Every page
-// here renders per request (they read the session), which nonces need; the prebuilt 404 page has no
-// nonce, so its scripts do not run and it stays plain HTML (its links still work). Other security headers
-// are in next.config.ts `headers()`.
+// here renders per request (they read the session), which nonces need; so does the 404 page
+// (app/not-found.tsx opts out of prerendering). Other security headers are in next.config.ts `headers()`.
 import { NextResponse, type NextRequest } from "next/server";
 
 const sessionCookie = /^(__Secure-)?authjs\.session-token(\.\d+)?$/;

@@ -1,5 +1,3 @@
-import Link from "next/link";
-
 /** Rendered with status 403 when requirePageActor finds the role missing. */
 export default function Forbidden() {
   return (
@@ -8,7 +6,8 @@ export default function Forbidden() {
       <h1 className="mt-2 text-2xl font-semibold text-river">Your roles in this workspace do not include this page</h1>
       <p className="mt-3 text-slate-700">Ask an admin of the workspace if you need another role.</p>
       <p className="mt-6">
-        <Link href="/" className="font-medium text-shallows underline-offset-2 hover:underline">Back to home</Link>
+        {/* A plain link: next/link here would ship its client code with every page, as these boundaries do. */}
+        <a href="/" className="font-medium text-shallows underline-offset-2 hover:underline">Back to home</a>
       </p>
     </main>
   );

@@ -1,8 +1,7 @@
 "use server";
-import { cookies } from "next/headers";
 import { redirect } from "next/navigation";
 import { signOut } from "@/server/auth";
-import { listActorWorkspaces, requireActor, WORKSPACE_COOKIE } from "@/server/authz";
+import { listActorWorkspaces, requireActor, setWorkspaceCookie } from "@/server/authz";
 
 export async function signOutAction(): Promise<void> {
   await signOut({ redirectTo: "/login" });
@@ -14,7 +13,7 @@ export async function switchWorkspaceAction(formData: FormData): Promise<void> {
   const slug = String(formData.get("workspace") ?? "");
   const workspaces = await listActorWorkspaces(actor);
   if (workspaces.some((w) => w.workspaceSlug === slug)) {
-    (await cookies()).set(WORKSPACE_COOKIE, slug, { httpOnly: true, sameSite: "lax", path: "/", maxAge: 365 * 24 * 60 * 60 });
+    await setWorkspaceCookie(slug);
   }
   redirect("/");
 }

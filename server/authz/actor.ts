@@ -12,6 +12,25 @@ import { getUserById } from "@/server/data/users";
 /** The cookie naming the current workspace (its slug) for signed-in browsers. */
 export const WORKSPACE_COOKIE = "tributary-workspace";
 
+/**
+ * Whether the request reached the app over TLS, decided as Auth.js decides it for its own cookies: the
+ * protocol of AUTH_URL (or NEXTAUTH_URL) when set, else X-Forwarded-Proto (set by a TLS proxy in front,
+ * and by Next itself to the protocol it was reached with).
+ */
+export function requestIsHttps(requestHeaders: Headers, env: Record<string, string | undefined> = process.env): boolean {
+  const envUrl = env.AUTH_URL ?? env.NEXTAUTH_URL;
+  if (envUrl) return new URL(envUrl).protocol === "https:";
+  const forwarded = requestHeaders.get("x-forwarded-proto");
+  // Auth.js assumes https when nothing says otherwise (Next always sets the header).
+  return (forwarded?.split(",")[0].trim().replace(/:$/, "") ?? "https") === "https";
+}
+
+/** Remembers the member's current workspace: HttpOnly, SameSite=Lax, path /, and Secure behind TLS. */
+export async function setWorkspaceCookie(slug: string): Promise<void> {
+  const secure = requestIsHttps(await headers());
+  (await cookies()).set(WORKSPACE_COOKIE, slug, { httpOnly: true, secure, sameSite: "lax", path: "/", maxAge: 365 * 24 * 60 * 60 });
+}
+
 /** Who is acting, in which workspace, with which roles. Every entry point gets one from requireActor. */
 export type Actor = {
   userId: string;

@@ -3,7 +3,10 @@
  * record's specification. Isomorphic (no `server-only`): the scenario page computes its instant
  * preview in the browser with the same code the predict route runs. See README.md.
  */
-import { type FitRecord, predictorColumns } from "@/server/stats";
+// Straight from the module, not the engine's index: the browser bundles of the scenario room import
+// this file on first paint and should not pull the rest of the engine with it.
+import type { FitRecord } from "@/server/stats";
+import { predictorColumns } from "@/server/stats/model-specification";
 
 /** A spend channel: a raw column the planner allocates money to. */
 export interface PlanChannel {

@@ -372,15 +372,7 @@ export function scenarioOutcome(
   return outcome;
 }
 
-/** Channel name → its "Beyond observed range" sentence (for the allocation rows), null when inside. */
-export function channelWarningSentences(shape: PlanShape, warnings: readonly ScenarioWarning[]): Record<string, string | null> {
-  const sentences: Record<string, string | null> = {};
-  for (const channel of shape.channels) sentences[channel.name] = null;
-  for (const warning of warnings) {
-    if (warning.kind === "outside-range" && warning.role === "channel") sentences[warning.column] = warning.message;
-  }
-  return sentences;
-}
+export { channelWarningSentences } from "./channel-warnings";
 
 /**
  * Expected total of plan A minus plan B with its confidence interval (from the fit's covariance:

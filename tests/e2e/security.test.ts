@@ -5,12 +5,15 @@
 //   script tag carries that nonce; route handlers' answers a policy that allows nothing; HSTS only when
 //   the request came over TLS (X-Forwarded-Proto: https);
 // - in a real browser the signed-in pages run under that policy without a single violation (the inline
-//   bootstrap scripts and the chunks run: the page hydrates);
+//   bootstrap scripts and the chunks run: the page hydrates), the scenario room with the parts it loads
+//   after the first paint too; so does the 404 page of a missing URL
+//   (rendered per request, so it has the nonce too);
 // - same-origin check: a cookie-authenticated POST from another origin (Origin or Sec-Fetch-Site) is 403
 //   and changes nothing, while the same request from our origin works and Bearer calls are exempt; a server
 //   action posted with another Origin is refused by Next and does not run;
 // - cookie flags: the session cookie is HttpOnly and SameSite=Lax, not Secure over plain http, and
 //   `__Secure-` + Secure when the app is reached over https (Auth.js decides from the request's protocol);
+//   the `tributary-workspace` cookie is HttpOnly, SameSite=Lax, path / and Secure by the same rule;
 // - the client bundles (static chunks and prerendered pages of the build) contain no secret or server-only
 //   value: not AUTH_SECRET's or DATABASE_URL's value, no postgres:// URL, no SMTP password, no argon2 or
 //   database driver code.
@@ -34,11 +37,36 @@ beforeAll(async () => {
 
 afterAll(async () => {
   await sql`delete from api_tokens where name like 'security test%'`;
+  await sql`delete from scenarios where name = 'security test room'`.catch(() => {});
   await sql.end();
   await browser?.close();
 });
 
+/** A scenario on Larkspur's approved fit, started through the API (removed again after the tests). */
+async function scenarioForRoom(): Promise<string> {
+  const [fit] = await sql<{ id: string }[]>`
+    select f.id from fits f join workspaces w on w.id = f.workspace_id
+    where w.slug = 'larkspur' and f.status = 'approved' order by f.approved_at limit 1`;
+  expect(fit, "an approved fit in Larkspur Outfitters").toBeTruthy();
+  const { token } = await createTokenFor(sql, "planner@larkspur.example", "larkspur", "security test room");
+  const response = await fetch(url("/api/scenarios"), {
+    method: "POST",
+    headers: { authorization: `Bearer ${token}`, "content-type": "application/json" },
+    body: JSON.stringify({ fitId: fit.id, name: "security test room" }),
+  });
+  expect(response.status, await response.clone().text()).toBe(201);
+  return ((await response.json()) as { id: string }).id;
+}
+
 const get = (path: string, headers: Record<string, string> = {}) => fetch(url(path), { headers, redirect: "manual" });
+
+/** The build's server actions by id (server-reference manifest). */
+function serverActions(): Record<string, { exportedName?: string; filename?: string }> {
+  const manifest = JSON.parse(readFileSync(path.join(process.env.NEXT_DIST_DIR || ".next-test", "server", "server-reference-manifest.json"), "utf8")) as {
+    node: Record<string, { exportedName?: string; filename?: string }>;
+  };
+  return manifest.node;
+}
 
 function directives(policy: string | null): Map<string, string[]> {
   const map = new Map<string, string[]>();
@@ -118,8 +146,57 @@ describe("headers", () => {
       // A client-side navigation works (needs the hydrated router and its chunks).
       await tab.page.getByRole("link", { name: /scenarios/i }).first().click();
       await tab.page.waitForURL((u) => u.pathname.startsWith("/scenarios"), { timeout: 15_000 });
+
+      // The scenario room loads parts after the first paint (preview engine, suggestion panel, response
+      // curves, version drawer, finance review): chunks the nonce'd bootstrap imports, allowed by 'strict-dynamic'.
+      const scenarioId = await scenarioForRoom();
+      await tab.page.goto(`/scenarios/${scenarioId}`);
+      await tab.page.locator('[data-testid="outcome-panel"][data-source="server"]').waitFor();
+      await tab.page.getByTestId("response-curves").getByTestId("response-curve").first().waitFor();
+      await tab.page.getByTestId("suggest-panel").waitFor();
+      await tab.page.getByTestId("scenario-signoff-status").waitFor();
+      await tab.page.getByRole("button", { name: /Version history/ }).click();
+      await tab.page.getByTestId("version-drawer").waitFor();
+      await tab.page.waitForLoadState("networkidle");
       expect(violations).toEqual([]);
       expect(tab.errors.filter((error) => /content security policy/i.test(error))).toEqual([]);
+    } finally {
+      await tab.close();
+    }
+  });
+});
+
+describe("the 404 page", () => {
+  test("is rendered per request: its scripts carry the nonce, and in the browser it runs without a violation and hydrates", async () => {
+    const response = await get("/no-such-page-here");
+    expect(response.status).toBe(404);
+    const nonce = (directives(response.headers.get("content-security-policy")).get("script-src") ?? []).find((value) => value.startsWith("'nonce-"))?.slice(7, -1);
+    expect(nonce, "script-src has a nonce").toBeTruthy();
+    const scripts = [...(await response.text()).matchAll(/<script\b[^>]*>/g)].map((m) => m[0]);
+    expect(scripts.length).toBeGreaterThan(0);
+    for (const tag of scripts) expect(tag, "every script tag of the 404 page carries the nonce").toContain(`nonce="${nonce}"`);
+
+    const tab = await openPage(browser);
+    const violations: string[] = [];
+    await tab.context.exposeBinding("reportViolation", (_source, text: string) => violations.push(text));
+    await tab.context.addInitScript(() => {
+      document.addEventListener("securitypolicyviolation", (event) => {
+        (window as unknown as { reportViolation: (text: string) => void }).reportViolation(`${event.violatedDirective} ${event.blockedURI} on ${location.pathname}`);
+      });
+    });
+    try {
+      const page = await tab.page.goto("/no-such-page-here/either");
+      expect(page?.status()).toBe(404);
+      await tab.page.waitForLoadState("networkidle");
+      await expect(tab.page.getByRole("heading", { name: "Nothing here" }).isVisible()).resolves.toBe(true);
+      // The inline bootstrap ran (self.__next_f) and React hydrated the page (its fiber on the DOM node).
+      expect(await tab.page.evaluate(() => Array.isArray((self as unknown as { __next_f?: unknown[] }).__next_f))).toBe(true);
+      await tab.page.waitForFunction(() => {
+        const main = document.querySelector("main");
+        return main !== null && Object.keys(main).some((key) => key.startsWith("__reactFiber"));
+      });
+      expect(violations).toEqual([]);
+      expect(tab.errors.filter((error) => /content security policy|refused to execute/i.test(error))).toEqual([]);
     } finally {
       await tab.close();
     }
@@ -170,10 +247,7 @@ describe("same-origin check on cookie-authenticated mutations", () => {
   });
 
   test("a server action posted with another Origin is refused by Next and does not run (the same post from our origin does)", async () => {
-    const manifest = JSON.parse(readFileSync(path.join(process.env.NEXT_DIST_DIR || ".next-test", "server", "server-reference-manifest.json"), "utf8")) as {
-      node: Record<string, { exportedName?: string; filename?: string }>;
-    };
-    const actionId = Object.entries(manifest.node).find(([, entry]) => entry.exportedName === "createTokenAction")?.[0];
+    const actionId = Object.entries(serverActions()).find(([, entry]) => entry.exportedName === "createTokenAction")?.[0];
     expect(actionId, "createTokenAction in the build's server-reference manifest").toBeTruthy();
     const cookie = await sessionCookie();
     const call = (name: string, headers: Record<string, string>) =>
@@ -195,12 +269,33 @@ describe("same-origin check on cookie-authenticated mutations", () => {
 });
 
 describe("cookie flags", () => {
-  test("the session cookie is HttpOnly and SameSite=Lax (and not Secure over plain http)", async () => {
+  /** Posts the header's workspace switch the way a browser without JavaScript does; returns the workspace cookie's Set-Cookie. */
+  async function switchWorkspace(cookie: string, headers: Record<string, string> = {}): Promise<string | undefined> {
+    const actionId = Object.entries(serverActions()).find(([, entry]) => entry.exportedName === "switchWorkspaceAction" && entry.filename?.includes("(app)/actions"))?.[0];
+    expect(actionId, "switchWorkspaceAction in the build's server-reference manifest").toBeTruthy();
+    const form = new FormData();
+    form.set(`$ACTION_ID_${actionId}`, "");
+    form.set("workspace", "larkspur");
+    const response = await fetch(url("/"), { method: "POST", redirect: "manual", headers: { cookie, origin, ...headers }, body: form });
+    await response.body?.cancel();
+    const line = response.headers.getSetCookie().find((entry) => entry.startsWith("tributary-workspace="));
+    expect(line, `status ${response.status}, Set-Cookie: ${response.headers.getSetCookie().join(" | ")}`).toBeTruthy();
+    return line;
+  }
+
+  test("the session cookie is HttpOnly and SameSite=Lax (and not Secure over plain http); so is the workspace cookie", async () => {
     const tab = await openPage(browser);
     try {
       await signInAs(tab.page, "finance");
-      const session = (await tab.context.cookies()).find((c) => /^authjs\.session-token/.test(c.name));
+      const cookies = await tab.context.cookies();
+      const session = cookies.find((c) => /^authjs\.session-token/.test(c.name));
       expect(session).toMatchObject({ httpOnly: true, sameSite: "Lax", secure: false });
+      const workspace = await switchWorkspace(cookies.map((c) => `${c.name}=${c.value}`).join("; "));
+      expect(workspace).toMatch(/^tributary-workspace=larkspur;/);
+      expect(workspace).toMatch(/;\s*HttpOnly/i);
+      expect(workspace).toMatch(/;\s*SameSite=Lax/i);
+      expect(workspace).toMatch(/;\s*Path=\/(;|$)/i);
+      expect(workspace).not.toMatch(/;\s*Secure/i);
     } finally {
       await tab.close();
     }
@@ -225,6 +320,14 @@ describe("cookie flags", () => {
     expect(session).toMatch(/;\s*HttpOnly/i);
     expect(session).toMatch(/;\s*Secure/i);
     expect(session).toMatch(/;\s*SameSite=Lax/i);
+
+    // The workspace cookie follows the same rule: Secure behind TLS.
+    const workspace = await switchWorkspace(session!.split(";")[0], headers);
+    expect(workspace).toMatch(/^tributary-workspace=larkspur;/);
+    expect(workspace).toMatch(/;\s*HttpOnly/i);
+    expect(workspace).toMatch(/;\s*Secure/i);
+    expect(workspace).toMatch(/;\s*SameSite=Lax/i);
+    expect(workspace).toMatch(/;\s*Path=\/(;|$)/i);
   });
 });
 

@@ -1,4 +1,4 @@
-import { scaleLinear } from "@visx/scale";
+import { linearScale } from "./linear-scale";
 import { chartColors } from "./palette";
 
 export type IntervalRowProps = {
@@ -26,7 +26,7 @@ export type IntervalRowProps = {
  */
 export function IntervalRow({ domain, point, confidence, prediction, reference, width = 220, height = 22, label, tone = "normal" }: IntervalRowProps) {
   const padding = 6;
-  const scale = scaleLinear<number>({ domain: [domain[0], domain[1]], range: [padding, width - padding], clamp: true });
+  const scale = linearScale(domain, [padding, width - padding], { clamp: true });
   const mid = height / 2;
   const band = (interval: readonly [number, number], thickness: number, fill: string) => {
     const x0 = scale(Math.min(interval[0], interval[1]));

@@ -1,12 +1,11 @@
 "use client";
 
-import { AxisBottom } from "@visx/axis";
-import { scaleLinear } from "@visx/scale";
 import { useLayoutEffect, useRef, useState } from "react";
 import type { MoneyLocale } from "@/server/planning/allocation";
 import type { PlanShape } from "@/server/predict/plan-shape";
 import { IntervalRow, intervalDomain } from "@/ui/charts/interval-row";
-import { chartColors, tickLabelProps } from "@/ui/charts/palette";
+import { BottomAxis } from "@/ui/charts/bottom-axis";
+import { linearScale } from "@/ui/charts/linear-scale";
 import { compactOutcomeText, outcomeText, signedOutcomeText } from "./format";
 
 export type ChartRow = {
@@ -64,7 +63,7 @@ export function IntervalsChart({
     rows.flatMap((row) => [row.point, ...(row.prediction ?? row.confidence ?? [])]),
     reference,
   );
-  const scale = scaleLinear<number>({ domain, range: [6, plotWidth - 6] });
+  const scale = linearScale(domain, [6, plotWidth - 6]);
   const text = (value: number) => (signed ? signedOutcomeText(value, outcome, money) : outcomeText(value, outcome, money));
   return (
     <figure ref={box} data-testid={testId} className="w-full break-inside-avoid">
@@ -100,16 +99,7 @@ export function IntervalsChart({
       <div className="flex">
         <div style={{ width: labelWidth }} className="shrink-0" />
         <svg width={plotWidth} height={26} aria-hidden="true" className="block overflow-visible">
-          <AxisBottom
-            top={1}
-            scale={scale}
-            numTicks={Math.max(2, Math.floor(plotWidth / 110))}
-            tickFormat={(value) => compactOutcomeText(Number(value), outcome, money)}
-            stroke={chartColors.grid}
-            tickStroke={chartColors.grid}
-            tickLength={4}
-            tickLabelProps={() => ({ ...tickLabelProps, textAnchor: "middle" as const })}
-          />
+          <BottomAxis top={1} scale={scale} numTicks={Math.max(2, Math.floor(plotWidth / 110))} tickFormat={(value) => compactOutcomeText(value, outcome, money)} tickLength={4} />
         </svg>
       </div>
     </figure>

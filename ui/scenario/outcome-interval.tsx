@@ -1,10 +1,9 @@
 "use client";
 
-import { AxisBottom } from "@visx/axis";
-import { scaleLinear } from "@visx/scale";
 import { useLayoutEffect, useRef, useState } from "react";
 import { IntervalRow } from "@/ui/charts/interval-row";
-import { chartColors, tickLabelProps } from "@/ui/charts/palette";
+import { BottomAxis } from "@/ui/charts/bottom-axis";
+import { linearScale } from "@/ui/charts/linear-scale";
 import type { OutcomeInterval as Interval } from "@/server/predict/scenario-outcome";
 
 /** Performance mark set each time the outcome's interval drawing changes (the latency benchmark reads it). */
@@ -51,7 +50,7 @@ export function OutcomeInterval({ interval, domain, reference, label, tone = "no
     drawn.current = key;
   }, [key, markRedraw]);
   const padding = 6;
-  const scale = scaleLinear<number>({ domain: [domain[0], domain[1]], range: [padding, width - padding] });
+  const scale = linearScale(domain, [padding, width - padding]);
   return (
     <div ref={box} data-testid={markRedraw ? "outcome-interval" : undefined} data-mean={interval.mean} className="w-full overflow-hidden">
       <IntervalRow
@@ -66,16 +65,7 @@ export function OutcomeInterval({ interval, domain, reference, label, tone = "no
         tone={tone}
       />
       <svg width={width} height={24} aria-hidden="true" className="block">
-        <AxisBottom
-          top={1}
-          scale={scale}
-          numTicks={4}
-          tickFormat={(value) => formatTick(Number(value))}
-          stroke={chartColors.grid}
-          tickStroke={chartColors.grid}
-          tickLength={4}
-          tickLabelProps={() => ({ ...tickLabelProps, textAnchor: "middle" as const })}
-        />
+        <BottomAxis top={1} scale={scale} numTicks={4} tickFormat={formatTick} tickLength={4} />
       </svg>
     </div>
   );

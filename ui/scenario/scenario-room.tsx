@@ -1,69 +1,52 @@
 "use client";
 
-import { QueryClient, QueryClientProvider, useQuery, useQueryClient } from "@tanstack/react-query";
-import { memo, useCallback, useMemo, useState } from "react";
-import {
-  type AllocationState,
-  allocationPerHorizon,
-  amountToCents,
-  centsToAmount,
-  createAllocationState,
-  formatCents,
-  type MoneyLocale,
-} from "@/server/planning/allocation";
+import dynamic from "next/dynamic";
+import { memo, useCallback, useEffect, useMemo, useRef, useState } from "react";
+import { type AllocationState, allocationPerHorizon, amountToCents, centsToAmount, formatCents, type MoneyLocale } from "@/server/planning/allocation";
 import type { PlanShape } from "@/server/predict/plan-shape";
-import { channelWarningSentences, type ScenarioPlan } from "@/server/predict/scenario-outcome";
+import { channelWarningSentences } from "@/server/predict/channel-warnings";
+import type { ScenarioOutcome, ScenarioPlan } from "@/server/predict/scenario-outcome";
 import type { ChannelSettings, ScenarioDto, VersionDto } from "@/server/scenarios/types";
 import type { FitRecord } from "@/server/stats";
 import { AllocationPanel } from "@/ui/allocation";
-import { ResponseCurvesSection } from "@/ui/response-curves/response-curves-section";
-import { SuggestPanel } from "@/ui/suggest/suggest-panel";
 import { createAllocationStore, useAllocationStore, type AllocationStore } from "@/ui/stores/allocation-store";
 import { ApiError, scenarioApi } from "./api";
 import { shiftShare } from "./cautions";
 import { ControlsPanel } from "./controls-panel";
 import { formatDateTime } from "./format";
 import { OutcomePanel } from "./outcome-panel";
-import { planOf, useScenarioPrediction } from "./use-scenario-prediction";
-import { VersionDrawer } from "./version-drawer";
+import { allocationFromPlan, planOf } from "./room-plan";
+import { useScenarioPrediction } from "./use-scenario-prediction";
+
+export { allocationFromPlan } from "./room-plan";
+
+/** The version list is read again when the tab comes back after at least this long (others may have saved). */
+const VERSIONS_FRESH_MS = 5_000;
+
+// Loaded after the first paint (their chunks are not part of the page's first load): the suggestion
+// panel, the response curves below the fold (with the chart library) and the version drawer (only once
+// it is opened). Placeholders keep the layout where they will appear.
+const SuggestPanel = dynamic(() => import("@/ui/suggest/suggest-panel").then((module) => module.SuggestPanel), {
+  ssr: false,
+  loading: () => <div className="min-h-28 rounded-lg border border-slate-200 bg-white shadow-sm" aria-busy="true" />,
+});
+const ResponseCurvesSection = dynamic(() => import("@/ui/response-curves/response-curves-section").then((module) => module.ResponseCurvesSection), {
+  ssr: false,
+  loading: () => <div className="min-h-64 rounded-lg border border-slate-200 bg-white shadow-sm" aria-busy="true" />,
+});
+const VersionDrawer = dynamic(() => import("./version-drawer").then((module) => module.VersionDrawer), { ssr: false });
+const preloadVersionDrawer = () => void import("./version-drawer");
 
 export interface ScenarioRoomProps {
   scenario: ScenarioDto;
   fit: { id: string; name: string; status: string; record: FitRecord; shape: PlanShape };
   /** The latest saved version (opened on arrival), or null before the first save. */
   initialVersion: VersionDto | null;
+  /** The server's outcome of the plan the room opens with (the preview engine loads after the first paint). */
+  initialOutcome: ScenarioOutcome | null;
   money: MoneyLocale;
   canWrite: boolean;
   canPredict: boolean;
-}
-
-type PlanSource = {
-  allocation: Record<string, number>;
-  horizon: number;
-  mode?: "fixed" | "growing";
-  ceiling?: number | null;
-  settings?: ChannelSettings;
-};
-
-/** The allocation store's state for a saved plan (amounts per horizon in currency units). */
-export function allocationFromPlan(shape: PlanShape, plan: PlanSource, startTotalCents: number): AllocationState {
-  const state = createAllocationState({
-    mode: plan.mode ?? "fixed",
-    horizonPeriods: plan.horizon,
-    ceilingCents: plan.ceiling === null || plan.ceiling === undefined ? undefined : amountToCents(plan.ceiling),
-    channels: shape.channels.map((channel) => ({
-      name: channel.name,
-      label: channel.label,
-      amountCents: amountToCents(plan.allocation[channel.name] ?? 0),
-      locked: plan.settings?.[channel.name]?.locked ?? false,
-      floorCents: plan.settings?.[channel.name]?.floorCents,
-      ceilingCents: plan.settings?.[channel.name]?.ceilingCents,
-      observed: { minPerPeriodCents: amountToCents(channel.observed.minimum), maxPerPeriodCents: amountToCents(channel.observed.maximum) },
-    })),
-  });
-  // Growth is measured from the scenario's starting plan, not from whichever version is open.
-  const base = plan.mode === "growing" ? startTotalCents : state.totalCents;
-  return { ...state, baseTotalCents: base, ceilingCents: plan.ceiling == null ? Math.max(state.totalCents, Math.round(base * 1.1)) : state.ceilingCents };
 }
 
 function settingsOf(allocation: AllocationState): ChannelSettings {
@@ -100,20 +83,10 @@ export function saveBody(allocation: AllocationState, controls: Record<string, n
 const MemoAllocationPanel = memo(AllocationPanel);
 const MemoControlsPanel = memo(ControlsPanel);
 
-/** The scenario screen: channel rows on the left, the outcome on the right, history in a drawer. */
-export function ScenarioRoom(props: ScenarioRoomProps) {
-  const [client] = useState(() => new QueryClient());
-  return (
-    <QueryClientProvider client={client}>
-      <Room {...props} />
-    </QueryClientProvider>
-  );
-}
-
 type Conflict = { message: string; latestVersion: number | null };
 
-function Room({ scenario, fit, initialVersion, money, canWrite, canPredict }: ScenarioRoomProps) {
-  const queryClient = useQueryClient();
+/** The scenario screen: channel rows on the left, the outcome on the right, history in a drawer. */
+export function ScenarioRoom({ scenario, fit, initialVersion, initialOutcome, money, canWrite, canPredict }: ScenarioRoomProps) {
   const shape = fit.shape;
   const startTotalCents = amountToCents(scenario.baseline.total);
   const baselinePlan: ScenarioPlan = useMemo(
@@ -129,19 +102,18 @@ function Room({ scenario, fit, initialVersion, money, canWrite, canPredict }: Sc
   const [note, setNote] = useState("");
   const [busy, setBusy] = useState(false);
   const [drawerOpen, setDrawerOpen] = useState(false);
+  const [drawerUsed, setDrawerUsed] = useState(false);
   const [message, setMessage] = useState<{ tone: "ok" | "problem"; text: string } | null>(null);
   const [conflict, setConflict] = useState<Conflict | null>(null);
 
-  const versions = useQuery({
-    queryKey: ["scenario-versions", scenario.id],
-    queryFn: () => scenarioApi.versions(scenario.id),
-    initialData: scenario.versions,
-    staleTime: 5_000,
-  });
+  const [versionList, setVersionList] = useState(scenario.versions);
+  const versionsReadAt = useRef(0);
+  /** Versions already fetched (a saved version never changes). */
+  const fetchedVersions = useRef(new Map<number, VersionDto>());
 
   const allocation = useAllocationStore(store, (state) => state.allocation);
   const plan = useMemo(() => planOf(allocation, controls), [allocation, controls]);
-  const prediction = useScenarioPrediction({ fitId: fit.id, record: fit.record, shape, money, plan, baseline: baselinePlan, canPredict });
+  const prediction = useScenarioPrediction({ fitId: fit.id, record: fit.record, shape, money, plan, baseline: baselinePlan, initialOutcome, canPredict });
   const warningKey = JSON.stringify(channelWarningSentences(shape, prediction.outcome?.warnings ?? []));
   const rangeWarnings = useMemo(() => JSON.parse(warningKey) as Record<string, string | null>, [warningKey]);
   const shift = useMemo(() => shiftShare(plan.allocation, baselinePlan.allocation), [plan, baselinePlan]);
@@ -156,9 +128,24 @@ function Room({ scenario, fit, initialVersion, money, canWrite, canPredict }: Sc
   );
 
   const refreshVersions = useCallback(async () => {
-    const list = await queryClient.fetchQuery({ queryKey: ["scenario-versions", scenario.id], queryFn: () => scenarioApi.versions(scenario.id), staleTime: 0 });
+    const list = await scenarioApi.versions(scenario.id);
+    versionsReadAt.current = Date.now();
+    setVersionList(list);
     return list;
-  }, [queryClient, scenario.id]);
+  }, [scenario.id]);
+
+  useEffect(() => {
+    versionsReadAt.current = Date.now();
+    const onVisible = () => {
+      if (document.visibilityState === "visible" && Date.now() - versionsReadAt.current >= VERSIONS_FRESH_MS) refreshVersions().catch(() => {});
+    };
+    window.addEventListener("focus", onVisible);
+    document.addEventListener("visibilitychange", onVisible);
+    return () => {
+      window.removeEventListener("focus", onVisible);
+      document.removeEventListener("visibilitychange", onVisible);
+    };
+  }, [refreshVersions]);
 
   const handleError = useCallback((error: unknown) => {
     if (error instanceof ApiError && error.status === 409 && error.details.some((detail) => "latestVersion" in detail)) {
@@ -185,7 +172,7 @@ function Room({ scenario, fit, initialVersion, money, canWrite, canPredict }: Sc
       setOpened(saved.number);
       setNote("");
       setConflict(null);
-      queryClient.setQueryData(["scenario-version", scenario.id, saved.number], saved);
+      fetchedVersions.current.set(saved.number, saved);
       await refreshVersions();
       setMessage({ tone: "ok", text: `Saved as version ${saved.number}.${saved.warnings.length > 0 ? " It carries extrapolation warnings." : ""}` });
     } catch (error) {
@@ -213,11 +200,8 @@ function Room({ scenario, fit, initialVersion, money, canWrite, canPredict }: Sc
 
   const openVersion = async (number: number) => {
     try {
-      const version = await queryClient.fetchQuery({
-        queryKey: ["scenario-version", scenario.id, number],
-        queryFn: () => scenarioApi.version(scenario.id, number),
-        staleTime: Infinity,
-      });
+      const version = fetchedVersions.current.get(number) ?? (await scenarioApi.version(scenario.id, number));
+      fetchedVersions.current.set(number, version);
       loadVersion(version);
       setMessage({ tone: "ok", text: `Opened version ${number}. Saving makes a new version after version ${baseVersion}.` });
     } catch (error) {
@@ -234,7 +218,6 @@ function Room({ scenario, fit, initialVersion, money, canWrite, canPredict }: Sc
     setMessage({ tone: "ok", text: `Now based on version ${latest}; your changes are still here. Open version ${latest} from the history to see it.` });
   };
 
-  const versionList = versions.data ?? [];
   const latest = versionList.at(-1)?.number ?? null;
   const setControl = useCallback((name: string, value: number) => setControls((current) => ({ ...current, [name]: value })), []);
   const perPeriodTotal = formatCents(Math.round(allocation.totalCents / allocation.horizonPeriods), money);
@@ -254,7 +237,12 @@ function Room({ scenario, fit, initialVersion, money, canWrite, canPredict }: Sc
         </p>
         <button
           type="button"
-          onClick={() => setDrawerOpen(true)}
+          onClick={() => {
+            setDrawerUsed(true);
+            setDrawerOpen(true);
+          }}
+          onPointerEnter={preloadVersionDrawer}
+          onFocus={preloadVersionDrawer}
           className="rounded-md border border-shallows bg-white px-3 py-1.5 text-sm font-medium text-shallows hover:bg-shallows-pale"
         >
           Version history ({versionList.length})
@@ -336,7 +324,8 @@ function Room({ scenario, fit, initialVersion, money, canWrite, canPredict }: Sc
 
       <ResponseCurvesSection record={fit.record} shape={shape} store={store} controls={controls} money={money} />
 
-      <VersionDrawer
+      {drawerUsed ? (
+        <VersionDrawer
         open={drawerOpen}
         onClose={() => setDrawerOpen(false)}
         scenarioId={scenario.id}
@@ -349,7 +338,8 @@ function Room({ scenario, fit, initialVersion, money, canWrite, canPredict }: Sc
         record={fit.record}
         shape={shape}
         money={money}
-      />
+        />
+      ) : null}
     </div>
   );
 }

@@ -1,5 +1,6 @@
 "use client";
 
+import { QueryClient, QueryClientProvider } from "@tanstack/react-query";
 import { useEffect, useId, useState } from "react";
 import type { MoneyLocale } from "@/server/planning/allocation";
 import type { PlanShape } from "@/server/predict/plan-shape";
@@ -25,7 +26,18 @@ export interface VersionDrawerProps {
 }
 
 /** Version history: every saved version, open or restore one, and compare two. */
-export function VersionDrawer({ open, onClose, scenarioId, versions, opened, canWrite, busy, onOpenVersion, onRestore, record, shape, money }: VersionDrawerProps) {
+export function VersionDrawer(props: VersionDrawerProps) {
+  // The comparison's fetches are cached here: this drawer loads as a chunk of its own (with the query
+  // library), only once it is opened.
+  const [client] = useState(() => new QueryClient());
+  return (
+    <QueryClientProvider client={client}>
+      <Drawer {...props} />
+    </QueryClientProvider>
+  );
+}
+
+function Drawer({ open, onClose, scenarioId, versions, opened, canWrite, busy, onOpenVersion, onRestore, record, shape, money }: VersionDrawerProps) {
   const titleId = useId();
   const latest = versions.at(-1)?.number ?? null;
   const [compare, setCompare] = useState<{ a: number; b: number } | null>(null);

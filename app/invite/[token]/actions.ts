@@ -1,10 +1,9 @@
 "use server";
-import { cookies } from "next/headers";
 import { redirect } from "next/navigation";
 import { z } from "zod";
 import { auth, signIn, signOut } from "@/server/auth";
 import { newPasswordSchema } from "@/server/auth/password";
-import { WORKSPACE_COOKIE } from "@/server/authz";
+import { setWorkspaceCookie } from "@/server/authz";
 import { acceptInvitation } from "@/server/data/invitations";
 import { getWorkspaceById } from "@/server/data/workspaces";
 import { toAppError } from "@/server/errors";
@@ -21,9 +20,7 @@ const newAccountSchema = z
 
 async function rememberWorkspace(workspaceId: string) {
   const workspace = await getWorkspaceById(workspaceId);
-  if (workspace) {
-    (await cookies()).set(WORKSPACE_COOKIE, workspace.slug, { httpOnly: true, sameSite: "lax", path: "/", maxAge: 365 * 24 * 60 * 60 });
-  }
+  if (workspace) await setWorkspaceCookie(workspace.slug);
 }
 
 /** A new person: create the account with the invited roles, then sign them in. */

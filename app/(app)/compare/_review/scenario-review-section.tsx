@@ -6,12 +6,14 @@ import { listSharesOfScenario } from "@/server/comparisons/share";
 import { moneyOf } from "@/server/predict/service";
 import type { ScenarioDto } from "@/server/scenarios/types";
 import { listSignoffsByScenario } from "@/server/signoffs/store";
-import { ScenarioReview, type ReviewVersion } from "@/ui/compare/scenario-review";
+import type { ReviewVersion } from "@/ui/compare/scenario-review";
+import { ScenarioReviewLazy } from "@/ui/compare/scenario-review-lazy";
 import { reviewPeople } from "./load";
 
 /**
  * The scenario page's finance review (issue 6): each version's sign-off status, comments, sharing.
- * A server component the scenario page renders below its room; it loads its own data.
+ * A server component the scenario page renders below its room; it loads its own data. The client part
+ * (ui/compare/scenario-review.tsx) loads after the first paint.
  */
 export async function ScenarioReviewSection({ actor, scenario }: { actor: Actor; scenario: ScenarioDto }) {
   const [decisions, comments, shares, people] = await Promise.all([
@@ -36,7 +38,7 @@ export async function ScenarioReviewSection({ actor, scenario }: { actor: Actor;
   });
   return (
     <Suspense>
-      <ScenarioReview
+      <ScenarioReviewLazy
         scenarioId={scenario.id}
         scenarioName={scenario.name}
         versions={versions}

@@ -3,8 +3,11 @@ import Link from "next/link";
 import { notFound } from "next/navigation";
 import { can, requirePageActor } from "@/server/authz";
 import { getCachedFit } from "@/server/predict/fit-cache";
+import { amountToCents } from "@/server/planning/allocation";
+import { scenarioOutcome } from "@/server/predict/scenario-outcome";
 import { moneyOf } from "@/server/predict/service";
 import { getScenarioById, getScenarioVersion } from "@/server/scenarios/store";
+import { allocationFromPlan, planOf } from "@/ui/scenario/room-plan";
 import { ScenarioRoom } from "@/ui/scenario/scenario-room";
 import { ScenarioReviewSection } from "../../compare/_review/scenario-review-section";
 
@@ -20,6 +23,10 @@ export default async function ScenarioPage({ params }: { params: Promise<{ id: s
   if (!fit || fit.workspaceId !== actor.workspaceId) notFound();
   const latest = scenario.latestVersion === null ? null : await getScenarioVersion(scenario.id, scenario.latestVersion);
   const approved = fit.status === "approved";
+  const money = moneyOf(actor);
+  // The opening plan's outcome, computed here with the engine the room previews with (its chunk loads
+  // after the first paint), exactly as the room would compute it.
+  const opening = initialOutcome(fit, scenario, latest, money);
   return (
     <div className="space-y-4">
       <div>
@@ -40,11 +47,28 @@ export default async function ScenarioPage({ params }: { params: Promise<{ id: s
         scenario={scenario}
         fit={{ id: fit.id, name: fit.name, status: fit.status, record: fit.record, shape: fit.shape }}
         initialVersion={latest}
-        money={moneyOf(actor)}
+        initialOutcome={opening}
+        money={money}
         canWrite={approved && can(actor, "scenario:write")}
         canPredict={approved && can(actor, "fit:predict")}
       />
       <ScenarioReviewSection actor={actor} scenario={scenario} />
     </div>
   );
+}
+
+function initialOutcome(
+  fit: NonNullable<Awaited<ReturnType<typeof getCachedFit>>>,
+  scenario: NonNullable<Awaited<ReturnType<typeof getScenarioById>>>,
+  latest: Awaited<ReturnType<typeof getScenarioVersion>> | null,
+  money: ReturnType<typeof moneyOf>,
+) {
+  const start = latest ?? scenario.baseline;
+  const allocation = allocationFromPlan(fit.shape, start, amountToCents(scenario.baseline.total));
+  const baseline = { allocation: scenario.baseline.allocation, controls: scenario.baseline.controls, horizon: scenario.baseline.horizon };
+  try {
+    return scenarioOutcome(fit.record, fit.shape, planOf(allocation, { ...start.controls }), { money, compareTo: baseline });
+  } catch {
+    return null; // the room shows the problem once its preview runs
+  }
 }
