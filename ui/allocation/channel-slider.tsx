@@ -4,7 +4,7 @@ import * as Slider from "@radix-ui/react-slider";
 import { useRef, type KeyboardEvent } from "react";
 import { formatCents } from "@/server/planning/allocation";
 import { dragStepCents, keyboardDelta, sliderMaxCents } from "./slider-scale";
-import { useAllocation, useAllocationStoreApi, useMoney, type AllocationComponentProps } from "./store-context";
+import { useAllocation, useAllocationReadOnly, useAllocationStoreApi, useMoney, type AllocationComponentProps } from "./store-context";
 
 export interface ChannelSliderProps extends AllocationComponentProps {
   /** Channel name (the model's term). */
@@ -27,9 +27,13 @@ export function ChannelSlider({ channel, maxCents, className, store: storeProp, 
   // The gesture is store-wide; only the slider that opened it may close it (focus moving from one
   // slider's thumb to another's blurs the first one while the second is already dragging).
   const gestureOpen = useRef(false);
+  const readOnly = useAllocationReadOnly();
   if (!row) return null;
+  // Locked rows hold still; a read-only plan (no scenario:write) never moves, by pointer or keyboard.
+  const disabled = row.locked || readOnly;
 
   const beginGesture = () => {
+    if (disabled) return;
     gestureOpen.current = true;
     store.getState().beginGesture();
   };
@@ -43,6 +47,7 @@ export function ChannelSlider({ channel, maxCents, className, store: storeProp, 
   const range = max;
 
   const onKeyDown = (event: KeyboardEvent<HTMLSpanElement>) => {
+    if (disabled) return;
     const delta = keyboardDelta(event.key, event.shiftKey, range);
     if (delta === null) return;
     // Prevent radix's own stepping (it skips its handler when default is prevented) so the step is
@@ -61,9 +66,11 @@ export function ChannelSlider({ channel, maxCents, className, store: storeProp, 
       max={max}
       step={dragStepCents(range)}
       value={[row.amountCents]}
-      disabled={row.locked}
+      disabled={disabled}
       onPointerDown={beginGesture}
-      onValueChange={([value]) => store.getState().move(channel, value)}
+      onValueChange={([value]) => {
+        if (!disabled) store.getState().move(channel, value);
+      }}
       onValueCommit={endGesture}
       onPointerUp={endGesture}
       onLostPointerCapture={endGesture}
@@ -76,6 +83,7 @@ export function ChannelSlider({ channel, maxCents, className, store: storeProp, 
       </Slider.Track>
       <Slider.Thumb
         aria-label={`${row.label} spend for the horizon`}
+        aria-disabled={disabled || undefined}
         aria-valuetext={formatCents(row.amountCents, money)}
         className="block size-5 rounded-full border-2 border-white bg-river shadow outline-none focus-visible:ring-4 focus-visible:ring-shallows/50 data-[disabled]:bg-slate-400"
       />
