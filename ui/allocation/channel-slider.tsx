@@ -29,11 +29,10 @@ export function ChannelSlider({ channel, maxCents, className, store: storeProp, 
   const gestureOpen = useRef(false);
   const readOnly = useAllocationReadOnly();
   if (!row) return null;
-  // Locked rows hold still; a read-only plan (no scenario:write) never moves, by pointer or keyboard.
-  const disabled = row.locked || readOnly;
 
+  // A read-only plan (no scenario:write) never moves, by pointer or keyboard; locked rows are disabled too.
   const beginGesture = () => {
-    if (disabled) return;
+    if (readOnly) return;
     gestureOpen.current = true;
     store.getState().beginGesture();
   };
@@ -47,7 +46,7 @@ export function ChannelSlider({ channel, maxCents, className, store: storeProp, 
   const range = max;
 
   const onKeyDown = (event: KeyboardEvent<HTMLSpanElement>) => {
-    if (disabled) return;
+    if (readOnly) return;
     const delta = keyboardDelta(event.key, event.shiftKey, range);
     if (delta === null) return;
     // Prevent radix's own stepping (it skips its handler when default is prevented) so the step is
@@ -66,10 +65,10 @@ export function ChannelSlider({ channel, maxCents, className, store: storeProp, 
       max={max}
       step={dragStepCents(range)}
       value={[row.amountCents]}
-      disabled={disabled}
+      disabled={row.locked || readOnly}
       onPointerDown={beginGesture}
       onValueChange={([value]) => {
-        if (!disabled) store.getState().move(channel, value);
+        if (!readOnly) store.getState().move(channel, value);
       }}
       onValueCommit={endGesture}
       onPointerUp={endGesture}
@@ -83,7 +82,7 @@ export function ChannelSlider({ channel, maxCents, className, store: storeProp, 
       </Slider.Track>
       <Slider.Thumb
         aria-label={`${row.label} spend for the horizon`}
-        aria-disabled={disabled || undefined}
+        aria-disabled={row.locked || readOnly || undefined}
         aria-valuetext={formatCents(row.amountCents, money)}
         className="block size-5 rounded-full border-2 border-white bg-river shadow outline-none focus-visible:ring-4 focus-visible:ring-shallows/50 data-[disabled]:bg-slate-400"
       />
