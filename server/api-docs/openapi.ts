@@ -1300,7 +1300,10 @@ const review: Section = {
       get: {
         tags: ["Side by side"],
         summary: "The caller's notifications in this workspace, with the unread count",
-        parameters: [{ name: "unread", in: "query", required: false, description: "1: only unread", schema: { type: "string", enum: ["0", "1", "true", "false"] } }],
+        parameters: [
+          { name: "unread", in: "query", required: false, description: "1: only unread", schema: { type: "string", enum: ["0", "1", "true", "false"] } },
+          { name: "limit", in: "query", required: false, description: "How many to return (default 100); 0: only the unread count", schema: { type: "integer", minimum: 0, maximum: 500 } },
+        ],
         responses: { "200": jsonBody({ type: "object", properties: { unread: { type: "integer" }, notifications: { type: "array", items: ref("Notification") } } }), ...commonErrors },
       },
     },

@@ -3,7 +3,10 @@
 // with the finance member, who gets an e-mail and a notification, opens the comparison (read-only: no
 // allocation controls; the API refuses a save with 403), comments mentioning the planner (e-mailed)
 // and signs off version 2. The planner saves version 3 on the scenario page and sees that it is not
-// signed off (version 2 is). Exports download; the notification is marked read.
+// signed off (version 2 is). Exports download; the notification is marked read. Finance meets the
+// scenario room read-only (banner; every control disabled, keyboard too); the scenarios list and the
+// scenario header show each scenario's sign-off status; the header's unread count follows a share
+// without a reload.
 import type { Browser, Page } from "playwright-core";
 import type postgres from "postgres";
 import { afterAll, beforeAll, describe, expect, test } from "vitest";
@@ -153,11 +156,81 @@ describe("side by side with finance", () => {
     expect(unexpectedErrors(finance)).toEqual([]);
   });
 
-  test("finance cannot change an allocation: no controls to save on the scenario page, and the API answers 403", async () => {
+  test("finance sees the sign-off on the scenarios list and the scenario header", async () => {
+    const { page } = finance;
+    await page.getByRole("navigation", { name: "Main" }).getByRole("link", { name: "Scenarios" }).click();
+    await page.waitForURL((url) => url.pathname === "/scenarios");
+    const summary = page.locator(`[data-testid="scenario-row"][data-scenario="${scenarioId}"] [data-testid="signoff-summary"]`);
+    expect(await summary.getAttribute("data-state")).toBe("signed_off");
+    expect(await summary.textContent()).toContain(`Signed off v2 by ${financeAccount.name}`);
+    expect(await page.locator(`[data-testid="scenario-row"][data-scenario="${scenarioId}"]`).textContent()).toContain("v2");
+    await finance.screenshot("compare-04b-finance-scenarios-list");
+    await page.goto(`/scenarios/${scenarioId}`);
+    const header = page.getByTestId("scenario-header-signoff");
+    expect(await header.getByTestId("signoff-summary").getAttribute("data-state")).toBe("signed_off");
+    expect(await header.textContent()).toContain(`Signed off v2 by ${financeAccount.name}`);
+  });
+
+  test("finance cannot change an allocation: the room is read-only (banner, disabled controls, keyboard too), and the API answers 403", async () => {
     const { page } = finance;
     await page.goto(`/scenarios/${scenarioId}`);
     await page.getByTestId("scenario-signoff-status").waitFor();
     expect(await page.getByRole("button", { name: /^Save version/ }).count()).toBe(0);
+
+    // The banner says why and what finance can do instead.
+    const banner = page.getByTestId("read-only-banner");
+    expect(await banner.textContent()).toMatch(/Read-only for you\. Your roles \(Finance\) do not include planning/);
+    expect(await banner.textContent()).toMatch(/open any saved version from Version history, put versions side by side and comment on, sign off or decline versions shared with you/);
+
+    // Every channel's slider and amount are disabled; so are locks, bounds, the total, the mode and the controls.
+    const sliders = page.getByRole("slider");
+    await sliders.first().waitFor();
+    const sliderCount = await sliders.count();
+    expect(sliderCount).toBeGreaterThan(1);
+    for (let index = 0; index < sliderCount; index += 1) {
+      expect(await sliders.nth(index).getAttribute("aria-disabled")).toBe("true");
+      expect(await sliders.nth(index).getAttribute("data-disabled")).not.toBeNull();
+    }
+    const amounts = page.getByRole("textbox", { name: /spend for the horizon$/ });
+    expect(await amounts.count()).toBe(sliderCount);
+    for (let index = 0; index < sliderCount; index += 1) expect(await amounts.nth(index).isDisabled()).toBe(true);
+    const locks = page.getByRole("button", { name: /^Lock / });
+    expect(await locks.count()).toBe(sliderCount);
+    for (let index = 0; index < sliderCount; index += 1) expect(await locks.nth(index).isDisabled()).toBe(true);
+    await page.locator("summary", { hasText: "Bounds" }).first().click();
+    expect(await page.getByRole("textbox", { name: /floor for the horizon$/ }).first().isDisabled()).toBe(true);
+    expect(await page.getByRole("textbox", { name: "Fixed total for the horizon" }).isDisabled()).toBe(true);
+    expect(await page.getByRole("radio", { name: "Fixed total" }).isDisabled()).toBe(true);
+    expect(await page.getByRole("radio", { name: /^Growing total/ }).isDisabled()).toBe(true);
+    const controls = page.getByTestId("controls-panel").getByRole("spinbutton");
+    for (let index = 0; index < (await controls.count()); index += 1) expect(await controls.nth(index).isDisabled()).toBe(true);
+    expect(await page.getByRole("button", { name: "Undo" }).count()).toBe(0);
+    expect(await page.getByRole("button", { name: "Redo" }).count()).toBe(0);
+    expect(await page.getByTestId("suggest-panel").count()).toBe(0);
+
+    // The keyboard changes nothing either: an arrow on the slider, Ctrl+Z on the page.
+    const search = page.getByRole("slider", { name: "Search spend for the horizon" });
+    const searchAmount = page.getByRole("textbox", { name: "Search spend for the horizon" });
+    const before = { slider: await search.getAttribute("aria-valuenow"), amount: await searchAmount.inputValue(), outcome: await page.getByTestId("unit-conversion").textContent() };
+    await search.focus();
+    await page.keyboard.press("ArrowRight");
+    await search.press("ArrowRight");
+    await page.keyboard.press("Control+z");
+    await page.waitForTimeout(500);
+    expect(await search.getAttribute("aria-valuenow")).toBe(before.slider);
+    expect(await searchAmount.inputValue()).toBe(before.amount);
+    expect(await page.getByTestId("unit-conversion").textContent()).toBe(before.outcome);
+
+    // Versions still open (read-only), none can be restored; the outcome and curves are there.
+    await page.getByRole("button", { name: /^Version history/ }).click();
+    const drawer = page.getByTestId("version-drawer");
+    expect(await drawer.getByRole("button", { name: /^Restore/ }).count()).toBe(0);
+    await drawer.getByRole("button", { name: "Open v1" }).click();
+    await expect.poll(() => page.getByTestId("save-message").textContent()).toMatch("Opened version 1 (read-only).");
+    expect(await page.getByRole("slider", { name: "Search spend for the horizon" }).getAttribute("aria-disabled")).toBe("true");
+    await drawer.getByRole("button", { name: "Close" }).click();
+    expect(await page.getByTestId("response-curves").count()).toBe(1);
+    await finance.screenshot("compare-04c-finance-read-only-room");
     const versions = (await (await api(`/api/scenarios/${scenarioId}`, { token: financeToken })).json()) as Json;
     const latest = (await (await api(`/api/scenarios/${scenarioId}/versions/2`, { token: financeToken })).json()) as Json;
     const attempt = await api(`/api/scenarios/${scenarioId}/versions`, {
@@ -188,8 +261,20 @@ describe("side by side with finance", () => {
     const row = (n: number) => page.locator(`[data-testid="version-signoff-row"][data-version="${n}"] [data-testid="signoff-badge"]`);
     expect(await row(3).getAttribute("data-state")).toBe("none");
     expect(await row(2).getAttribute("data-state")).toBe("signed_off");
+    const header = page.getByTestId("scenario-header-signoff");
+    expect(await header.textContent()).toContain("v2 signed off; v3 not signed off");
+    expect(await header.getByTestId("signoff-summary").getAttribute("data-state")).toBe("not_shared");
     await page.getByTestId("scenario-signoff-status").scrollIntoViewIfNeeded();
     await planner.screenshot("compare-05-planner-version-3-not-signed-off");
+
+    // The scenarios list: latest version 3, not signed off, and version 2 still is.
+    await page.goto("/scenarios");
+    const listed = page.locator(`[data-testid="scenario-row"][data-scenario="${scenarioId}"]`);
+    expect(await listed.getByTestId("signoff-summary").getAttribute("data-state")).toBe("not_shared");
+    expect(await listed.getByTestId("signoff-summary").getAttribute("data-version")).toBe("3");
+    expect(await listed.textContent()).toContain("v3 not shared with finance");
+    expect(await listed.getByTestId("signoff-earlier").textContent()).toBe("v2 signed off; v3 not signed off");
+    await planner.screenshot("compare-05b-planner-scenarios-list");
 
     // The same on /compare, and the API agrees.
     await page.goto("/compare");
@@ -215,5 +300,42 @@ describe("side by side with finance", () => {
     expect(pdf.status).toBe(200);
     expect(pdf.headers.get("content-type")).toBe("application/pdf");
     expect(Buffer.from(await pdf.arrayBuffer()).subarray(0, 5).toString()).toBe("%PDF-");
+  });
+
+  test("the header's unread count follows a share without a reload, and marking read brings it down", async () => {
+    const tab = await openPage(browser);
+    try {
+      // The page's own clock, so the test can jump past one poll interval (30 s) instead of waiting for it.
+      await tab.context.clock.install();
+      const { page } = tab;
+      await signInAs(page, "finance");
+      const link = page.getByTestId("notifications-link");
+      const before = Number(await link.getAttribute("data-unread"));
+      await page.evaluate(() => Object.assign(window, { sameDocument: true }));
+
+      const shared = await api(`/api/scenarios/${scenarioId}/versions/2/share`, {
+        method: "POST",
+        token: plannerToken,
+        json: { recipients: [financeAccount.email], note: "Version 2 once more, for the record.", acknowledgement: "Checked the warnings." },
+      });
+      expect(shared.status, await shared.clone().text()).toBe(201);
+      await page.clock.fastForward(31_000);
+      await expect.poll(() => link.getAttribute("data-unread"), { timeout: 15_000 }).toBe(String(before + 1));
+      expect(await page.getByTestId("unread-count").textContent()).toBe(`${before + 1} unread`);
+      // Same document: the count changed without a reload.
+      expect(await page.evaluate(() => (window as unknown as { sameDocument?: boolean }).sameDocument)).toBe(true);
+      await tab.screenshot("compare-07-finance-unread-updated");
+
+      // Marking everything read on /notifications lowers the header's count at once.
+      await link.click();
+      await page.waitForURL((url) => url.pathname === "/notifications");
+      await page.getByRole("button", { name: "Mark all read" }).click();
+      await expect.poll(() => link.getAttribute("data-unread"), { timeout: 15_000 }).toBe("0");
+      expect(await page.getByTestId("unread-count").count()).toBe(0);
+      expect(await page.evaluate(() => (window as unknown as { sameDocument?: boolean }).sameDocument)).toBe(true);
+      expect(unexpectedErrors(tab)).toEqual([]);
+    } finally {
+      await tab.close();
+    }
   });
 });

@@ -17,6 +17,8 @@ export interface AllocationPanelProps extends AllocationComponentProps {
   periodNoun?: string;
   /** Listen for Ctrl+Z anywhere on the page, not only inside the panel (one panel per page). */
   globalShortcuts?: boolean;
+  /** Show the plan without letting it change: every control disabled, no undo/redo (members without scenario:write). */
+  readOnly?: boolean;
   /** Called after every allocation change (moves, undo/redo) — where the prediction layer hooks in. */
   onAllocationChange?: (allocation: AllocationState, previous: AllocationState) => void;
   className?: string;
@@ -32,10 +34,11 @@ export function AllocationPanel({
   rangeWarnings,
   periodNoun,
   globalShortcuts = false,
+  readOnly = false,
   onAllocationChange,
   className,
 }: AllocationPanelProps) {
-  const onKeyDown = useUndoRedoShortcuts(store, globalShortcuts);
+  const onKeyDown = useUndoRedoShortcuts(store, globalShortcuts, !readOnly);
   const names = useAllocation((state) => state.allocation.channels.map((c) => c.name).join("\n"), store);
   const totalMessage = useAllocation((state) => (state.lastReason && !state.lastReason.channel ? state.lastMessage : null), store);
 
@@ -47,11 +50,16 @@ export function AllocationPanel({
   useEffect(() => subscribeToAllocation(store, (next, previous) => callback.current?.(next, previous)), [store]);
 
   return (
-    <AllocationStoreProvider store={store}>
-      <section aria-label="Allocation" className={`space-y-4 ${className ?? ""}`} onKeyDown={globalShortcuts ? undefined : onKeyDown}>
+    <AllocationStoreProvider store={store} readOnly={readOnly}>
+      <section
+        aria-label="Allocation"
+        data-readonly={readOnly || undefined}
+        className={`space-y-4 ${className ?? ""}`}
+        onKeyDown={globalShortcuts ? undefined : onKeyDown}
+      >
         <div className="flex flex-wrap items-end justify-between gap-4">
           <ModeSwitch money={money} />
-          <UndoRedoButtons />
+          {readOnly ? null : <UndoRedoButtons />}
         </div>
         <TotalDisplay money={money} periodNoun={periodNoun} />
         <p role="status" className={totalMessage ? "text-sm text-slate-700" : "sr-only"}>

@@ -2,7 +2,7 @@
 
 import { formatCents } from "@/server/planning/allocation";
 import { AmountField } from "./amount-field";
-import { useAllocation, useAllocationStoreApi, useMoney, type AllocationComponentProps } from "./store-context";
+import { useAllocation, useAllocationReadOnly, useAllocationStoreApi, useMoney, type AllocationComponentProps } from "./store-context";
 
 export interface BoundsDisclosureProps extends AllocationComponentProps {
   channel: string;
@@ -17,6 +17,7 @@ export function BoundsDisclosure({ channel, className, store: storeProp, money: 
   const store = useAllocationStoreApi(storeProp);
   const money = useMoney(storeProp, moneyProp);
   const row = useAllocation((state) => state.allocation.channels.find((c) => c.name === channel), storeProp);
+  const readOnly = useAllocationReadOnly();
   if (!row) return null;
 
   const summary = [
@@ -45,6 +46,7 @@ export function BoundsDisclosure({ channel, className, store: storeProp, money: 
           locale={money.locale}
           currency={money.currency}
           allowEmpty
+          disabled={readOnly}
           onCommit={(cents) => commit({ floorCents: cents, ceilingCents: row.ceilingCents })}
         />
         <AmountField
@@ -54,10 +56,11 @@ export function BoundsDisclosure({ channel, className, store: storeProp, money: 
           locale={money.locale}
           currency={money.currency}
           allowEmpty
+          disabled={readOnly}
           onCommit={(cents) => commit({ floorCents: row.floorCents, ceilingCents: cents })}
         />
       </div>
-      <p className="mt-1 text-xs text-slate-500">Leave a field empty for no bound.</p>
+      <p className="mt-1 text-xs text-slate-500">{readOnly ? "Bounds are set by planners." : "Leave a field empty for no bound."}</p>
     </details>
   );
 }

@@ -1,7 +1,7 @@
 "use client";
 
 import { AmountField } from "./amount-field";
-import { useAllocation, useAllocationStoreApi, useMoney, type AllocationComponentProps } from "./store-context";
+import { useAllocation, useAllocationReadOnly, useAllocationStoreApi, useMoney, type AllocationComponentProps } from "./store-context";
 
 export interface ChannelAmountInputProps extends AllocationComponentProps {
   channel: string;
@@ -13,6 +13,7 @@ export function ChannelAmountInput({ channel, className, store: storeProp, money
   const store = useAllocationStoreApi(storeProp);
   const money = useMoney(storeProp, moneyProp);
   const row = useAllocation((state) => state.allocation.channels.find((c) => c.name === channel), storeProp);
+  const readOnly = useAllocationReadOnly();
   if (!row) return null;
   return (
     <AmountField
@@ -21,7 +22,7 @@ export function ChannelAmountInput({ channel, className, store: storeProp, money
       valueCents={row.amountCents}
       locale={money.locale}
       currency={money.currency}
-      disabled={row.locked}
+      disabled={row.locked || readOnly}
       onCommit={(cents) => {
         // The field never commits undefined here (allowEmpty is off); a clamp is explained by lastMessage.
         if (cents !== undefined) store.getState().move(channel, cents);

@@ -4,7 +4,7 @@ import * as Slider from "@radix-ui/react-slider";
 import { useRef, type KeyboardEvent } from "react";
 import { formatCents } from "@/server/planning/allocation";
 import { dragStepCents, keyboardDelta, sliderMaxCents } from "./slider-scale";
-import { useAllocation, useAllocationStoreApi, useMoney, type AllocationComponentProps } from "./store-context";
+import { useAllocation, useAllocationReadOnly, useAllocationStoreApi, useMoney, type AllocationComponentProps } from "./store-context";
 
 export interface ChannelSliderProps extends AllocationComponentProps {
   /** Channel name (the model's term). */
@@ -27,9 +27,12 @@ export function ChannelSlider({ channel, maxCents, className, store: storeProp, 
   // The gesture is store-wide; only the slider that opened it may close it (focus moving from one
   // slider's thumb to another's blurs the first one while the second is already dragging).
   const gestureOpen = useRef(false);
+  const readOnly = useAllocationReadOnly();
   if (!row) return null;
 
+  // A read-only plan (no scenario:write) never moves, by pointer or keyboard; locked rows are disabled too.
   const beginGesture = () => {
+    if (readOnly) return;
     gestureOpen.current = true;
     store.getState().beginGesture();
   };
@@ -43,6 +46,7 @@ export function ChannelSlider({ channel, maxCents, className, store: storeProp, 
   const range = max;
 
   const onKeyDown = (event: KeyboardEvent<HTMLSpanElement>) => {
+    if (readOnly) return;
     const delta = keyboardDelta(event.key, event.shiftKey, range);
     if (delta === null) return;
     // Prevent radix's own stepping (it skips its handler when default is prevented) so the step is
@@ -61,9 +65,11 @@ export function ChannelSlider({ channel, maxCents, className, store: storeProp, 
       max={max}
       step={dragStepCents(range)}
       value={[row.amountCents]}
-      disabled={row.locked}
+      disabled={row.locked || readOnly}
       onPointerDown={beginGesture}
-      onValueChange={([value]) => store.getState().move(channel, value)}
+      onValueChange={([value]) => {
+        if (!readOnly) store.getState().move(channel, value);
+      }}
       onValueCommit={endGesture}
       onPointerUp={endGesture}
       onLostPointerCapture={endGesture}
@@ -76,6 +82,7 @@ export function ChannelSlider({ channel, maxCents, className, store: storeProp, 
       </Slider.Track>
       <Slider.Thumb
         aria-label={`${row.label} spend for the horizon`}
+        aria-disabled={row.locked || readOnly || undefined}
         aria-valuetext={formatCents(row.amountCents, money)}
         className="block size-5 rounded-full border-2 border-white bg-river shadow outline-none focus-visible:ring-4 focus-visible:ring-shallows/50 data-[disabled]:bg-slate-400"
       />

@@ -1,6 +1,6 @@
 /** Client components for the scenario's allocation panel (see AllocationPanel for the assembled form). */
 export { AllocationPanel, type AllocationPanelProps } from "./allocation-panel";
-export { AllocationStoreProvider, useAllocation, useAllocationStoreApi, useMoney, type AllocationComponentProps } from "./store-context";
+export { AllocationStoreProvider, useAllocation, useAllocationReadOnly, useAllocationStoreApi, useMoney, type AllocationComponentProps } from "./store-context";
 export { ChannelRow, type ChannelRowProps } from "./channel-row";
 export { ChannelSlider, type ChannelSliderProps } from "./channel-slider";
 export { ChannelAmountInput, type ChannelAmountInputProps } from "./channel-amount-input";

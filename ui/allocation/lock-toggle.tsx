@@ -1,6 +1,6 @@
 "use client";
 
-import { useAllocation, useAllocationStoreApi, type AllocationComponentProps } from "./store-context";
+import { useAllocation, useAllocationReadOnly, useAllocationStoreApi, type AllocationComponentProps } from "./store-context";
 
 export interface LockToggleProps extends AllocationComponentProps {
   channel: string;
@@ -11,14 +11,18 @@ export interface LockToggleProps extends AllocationComponentProps {
 export function LockToggle({ channel, className, store: storeProp }: LockToggleProps) {
   const store = useAllocationStoreApi(storeProp);
   const row = useAllocation((state) => state.allocation.channels.find((c) => c.name === channel), storeProp);
+  const readOnly = useAllocationReadOnly();
   if (!row) return null;
   return (
     <button
       type="button"
       aria-pressed={row.locked}
       title={row.locked ? `${row.label} is locked` : `Lock ${row.label}`}
-      onClick={() => store.getState().toggleLock(channel)}
-      className={`inline-flex items-center gap-1 rounded border px-2 py-1 text-sm outline-none focus-visible:ring-2 focus-visible:ring-shallows ${
+      disabled={readOnly}
+      onClick={() => {
+        if (!readOnly) store.getState().toggleLock(channel);
+      }}
+      className={`inline-flex items-center gap-1 rounded border px-2 py-1 text-sm outline-none focus-visible:ring-2 focus-visible:ring-shallows disabled:cursor-not-allowed disabled:opacity-60 ${
         row.locked ? "border-river bg-river text-white" : "border-slate-300 bg-white text-slate-700 hover:border-shallows"
       } ${className ?? ""}`}
     >

@@ -3,7 +3,7 @@
 import { useId } from "react";
 import { formatCents, growthOf, type AllocationMode } from "@/server/planning/allocation";
 import { AmountField } from "./amount-field";
-import { useAllocation, useAllocationStoreApi, useMoney, type AllocationComponentProps } from "./store-context";
+import { useAllocation, useAllocationReadOnly, useAllocationStoreApi, useMoney, type AllocationComponentProps } from "./store-context";
 
 const MODES: { mode: AllocationMode; label: string; hint: string }[] = [
   { mode: "fixed", label: "Fixed total", hint: "Money only moves between channels." },
@@ -22,17 +22,18 @@ export function ModeSwitch({ store: storeProp, money: moneyProp, className }: Al
   const ceiling = useAllocation((state) => state.allocation.ceilingCents, storeProp);
   const base = useAllocation((state) => state.allocation.baseTotalCents, storeProp);
   const growth = useAllocation((state) => growthOf(state.allocation), storeProp);
+  const readOnly = useAllocationReadOnly();
 
   return (
-    <fieldset className={className}>
+    <fieldset className={className} disabled={readOnly}>
       <legend className="mb-1 text-sm font-medium text-slate-600">Total</legend>
       <div className="inline-flex overflow-hidden rounded-md border border-river">
         {MODES.map((option) => (
           <label
             key={option.mode}
             title={option.hint}
-            className={`cursor-pointer px-3 py-1.5 text-sm has-[:focus-visible]:ring-2 has-[:focus-visible]:ring-shallows ${
-              mode === option.mode ? "bg-river text-white" : "bg-white text-river hover:bg-silt"
+            className={`px-3 py-1.5 ${readOnly ? "cursor-not-allowed" : "cursor-pointer"} text-sm has-[:focus-visible]:ring-2 has-[:focus-visible]:ring-shallows ${
+              mode === option.mode ? "bg-river text-white" : readOnly ? "bg-white text-slate-500" : "bg-white text-river hover:bg-silt"
             }`}
           >
             <input
@@ -41,7 +42,10 @@ export function ModeSwitch({ store: storeProp, money: moneyProp, className }: Al
               name={name}
               value={option.mode}
               checked={mode === option.mode}
-              onChange={() => store.getState().setMode(option.mode)}
+              disabled={readOnly}
+              onChange={() => {
+                if (!readOnly) store.getState().setMode(option.mode);
+              }}
             />
             {option.label}
           </label>
@@ -56,12 +60,13 @@ export function ModeSwitch({ store: storeProp, money: moneyProp, className }: Al
             valueCents={ceiling}
             locale={money.locale}
             currency={money.currency}
+            disabled={readOnly}
             onCommit={(cents) => {
               // A clamped ceiling is explained in the panel's status line, like every total-level message.
               if (cents !== undefined) store.getState().setCeiling(cents);
             }}
           />
-          <GrowthField growth={growth} onCommit={(value) => store.getState().setGrowth(value)} />
+          <GrowthField growth={growth} disabled={readOnly} onCommit={(value) => store.getState().setGrowth(value)} />
           <p className="num pb-1 text-sm text-slate-600">Starting total {formatCents(base, money)}</p>
         </div>
       ) : null}
@@ -69,7 +74,7 @@ export function ModeSwitch({ store: storeProp, money: moneyProp, className }: Al
   );
 }
 
-function GrowthField({ growth, onCommit }: { growth: number; onCommit: (growth: number) => void }) {
+function GrowthField({ growth, disabled, onCommit }: { growth: number; disabled: boolean; onCommit: (growth: number) => void }) {
   const id = useId();
   const shown = String(Math.round(growth * 1000) / 10);
   return (
@@ -84,6 +89,7 @@ function GrowthField({ growth, onCommit }: { growth: number; onCommit: (growth: 
         step="0.1"
         min="0"
         defaultValue={shown}
+        disabled={disabled}
         onKeyDown={(event) => {
           if (event.key === "Enter") event.currentTarget.blur();
         }}
@@ -93,9 +99,9 @@ function GrowthField({ growth, onCommit }: { growth: number; onCommit: (growth: 
             event.currentTarget.value = shown;
             return;
           }
-          if (String(value) !== shown) onCommit(value / 100);
+          if (!disabled && String(value) !== shown) onCommit(value / 100);
         }}
-        className="num w-full rounded border border-slate-300 bg-white px-2 py-1 text-right outline-none focus-visible:ring-2 focus-visible:ring-shallows"
+        className="num w-full rounded border border-slate-300 bg-white px-2 py-1 text-right outline-none focus-visible:ring-2 focus-visible:ring-shallows disabled:bg-slate-100 disabled:text-slate-500"
       />
     </div>
   );

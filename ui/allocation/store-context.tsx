@@ -5,10 +5,23 @@ import type { MoneyLocale } from "@/server/planning/allocation";
 import { useAllocationStore, type AllocationStore, type AllocationStoreState } from "@/ui/stores/allocation-store";
 
 const AllocationStoreContext = createContext<AllocationStore | null>(null);
+const ReadOnlyContext = createContext(false);
 
-/** Makes one scenario's allocation store available to the allocation components below it. */
-export function AllocationStoreProvider({ store, children }: { store: AllocationStore; children: ReactNode }) {
-  return <AllocationStoreContext.Provider value={store}>{children}</AllocationStoreContext.Provider>;
+/**
+ * Makes one scenario's allocation store available to the allocation components below it. With
+ * `readOnly` every control below shows the plan but cannot change it (disabled, keyboard included).
+ */
+export function AllocationStoreProvider({ store, readOnly = false, children }: { store: AllocationStore; readOnly?: boolean; children: ReactNode }) {
+  return (
+    <AllocationStoreContext.Provider value={store}>
+      <ReadOnlyContext.Provider value={readOnly}>{children}</ReadOnlyContext.Provider>
+    </AllocationStoreContext.Provider>
+  );
+}
+
+/** True inside a read-only AllocationStoreProvider (members who may look but not plan). */
+export function useAllocationReadOnly(): boolean {
+  return useContext(ReadOnlyContext);
 }
 
 /** The store from a prop if given, else from the nearest AllocationStoreProvider. */

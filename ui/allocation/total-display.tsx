@@ -2,7 +2,7 @@
 
 import { formatCents, headroomCents, horizonToPerPeriod } from "@/server/planning/allocation";
 import { AmountField } from "./amount-field";
-import { useAllocation, useAllocationStoreApi, useMoney, type AllocationComponentProps } from "./store-context";
+import { useAllocation, useAllocationReadOnly, useAllocationStoreApi, useMoney, type AllocationComponentProps } from "./store-context";
 
 export interface TotalDisplayProps extends AllocationComponentProps {
   /** Word for one period of the fit, e.g. "week". */
@@ -22,6 +22,7 @@ export function TotalDisplay({ periodNoun = "period", className, store: storePro
   const ceiling = useAllocation((state) => state.allocation.ceilingCents, storeProp);
   const headroom = useAllocation((state) => headroomCents(state.allocation), storeProp);
   const horizon = useAllocation((state) => state.allocation.horizonPeriods, storeProp);
+  const readOnly = useAllocationReadOnly();
   const perPeriod = Math.round(horizonToPerPeriod(total, horizon));
 
   return (
@@ -34,6 +35,7 @@ export function TotalDisplay({ periodNoun = "period", className, store: storePro
           valueCents={total}
           locale={money.locale}
           currency={money.currency}
+          disabled={readOnly}
           onCommit={(cents) => {
             if (cents !== undefined) store.getState().setTotal(cents);
           }}

@@ -14,11 +14,12 @@ function isTextEditing(target: EventTarget | null): boolean {
 /**
  * Ctrl+Z (⌘Z) undoes, Ctrl+Shift+Z / Ctrl+Y redoes. Returns a handler for a container's onKeyDown
  * (scoped, so two scenarios side by side keep separate histories); pass `global` to listen on window.
+ * With `enabled` false (a read-only plan) the keys do nothing.
  */
-export function useUndoRedoShortcuts(store: AllocationStore, global = false) {
+export function useUndoRedoShortcuts(store: AllocationStore, global = false, enabled = true) {
   const handler = useCallback(
     (event: Pick<KeyboardEvent, "key" | "ctrlKey" | "metaKey" | "shiftKey" | "target" | "preventDefault" | "defaultPrevented">) => {
-      if (event.defaultPrevented || !(event.ctrlKey || event.metaKey) || isTextEditing(event.target)) return;
+      if (!enabled || event.defaultPrevented || !(event.ctrlKey || event.metaKey) || isTextEditing(event.target)) return;
       const key = event.key.toLowerCase();
       if (key === "z" && !event.shiftKey) {
         event.preventDefault();
@@ -28,14 +29,14 @@ export function useUndoRedoShortcuts(store: AllocationStore, global = false) {
         store.getState().redo();
       }
     },
-    [store],
+    [store, enabled],
   );
   useEffect(() => {
-    if (!global) return;
+    if (!global || !enabled) return;
     const listener = (event: KeyboardEvent) => handler(event);
     window.addEventListener("keydown", listener);
     return () => window.removeEventListener("keydown", listener);
-  }, [global, handler]);
+  }, [global, enabled, handler]);
   return handler;
 }
 

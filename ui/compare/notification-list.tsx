@@ -5,6 +5,7 @@ import { useRouter } from "next/navigation";
 import { useTransition } from "react";
 import type { NotificationDto } from "@/server/notifications/store";
 import { buttonClass } from "@/ui/button-class";
+import { useSetUnreadCount } from "@/ui/notifications/unread-count";
 import { reviewApi } from "./api";
 import { dateText } from "./format";
 
@@ -21,10 +22,17 @@ const kindLabels: Record<NotificationDto["kind"], string> = {
 export function NotificationList({ notifications, locale }: { notifications: NotificationDto[]; locale: string }) {
   const router = useRouter();
   const [pending, startTransition] = useTransition();
+  const setUnreadCount = useSetUnreadCount();
   const unread = notifications.filter((item) => item.readAt === null);
+  // The header's count follows at once from the answer (it carries the new unread count).
+  const markRead = (body: { ids?: string[]; all?: boolean }) =>
+    reviewApi.markRead(body).then(
+      (result) => setUnreadCount(result.unread),
+      () => undefined,
+    );
   const mark = (body: { ids?: string[]; all?: boolean }) =>
     startTransition(async () => {
-      await reviewApi.markRead(body).catch(() => undefined);
+      await markRead(body);
       router.refresh();
     });
 
@@ -52,7 +60,7 @@ export function NotificationList({ notifications, locale }: { notifications: Not
               <Link
                 href={item.link}
                 onClick={() => {
-                  if (item.readAt === null) void reviewApi.markRead({ ids: [item.id] }).catch(() => undefined);
+                  if (item.readAt === null) void markRead({ ids: [item.id] });
                 }}
                 className={`text-sm hover:underline ${item.readAt === null ? "font-semibold text-river" : "text-slate-800"}`}
               >

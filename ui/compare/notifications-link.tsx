@@ -1,7 +1,19 @@
-import Link from "next/link";
+"use client";
 
-/** The header's link to the notification list, with the unread count (words for screen readers). */
-export function NotificationsLink({ unread }: { unread: number }) {
+import Link from "next/link";
+import { UNREAD_POLL_MS } from "@/ui/notifications/poll";
+import { useUnreadCount } from "@/ui/notifications/unread-count";
+
+export interface NotificationsLinkProps {
+  /** The unread count the server rendered the page with. */
+  initialUnread: number;
+  /** How often to re-read the count while the page is open (also re-read on window focus). */
+  pollMs?: number;
+}
+
+/** The header's link to the notification list, with the unread count kept current (words for screen readers). */
+export function NotificationsLink({ initialUnread, pollMs = UNREAD_POLL_MS }: NotificationsLinkProps) {
+  const unread = useUnreadCount(initialUnread, pollMs);
   return (
     <Link
       href="/notifications"
@@ -15,7 +27,7 @@ export function NotificationsLink({ unread }: { unread: number }) {
       </svg>
       <span>Notifications</span>
       {unread > 0 ? (
-        <span className="num rounded-full bg-ember px-1.5 text-xs font-semibold text-white" data-testid="unread-count">
+        <span className="num rounded-full bg-ember px-1.5 text-xs font-semibold text-white" data-testid="unread-count" aria-live="polite">
           {unread > 99 ? "99+" : unread}
           <span className="sr-only"> unread</span>
         </span>

@@ -19,7 +19,7 @@ export function ControlsPanel({ shape, horizon, controls, onChange, disabled }: 
   const baseId = useId();
   if (shape.controls.length === 0) return null;
   return (
-    <fieldset className="rounded-md bg-white px-4 py-3 shadow-sm" data-testid="controls-panel">
+    <fieldset className="rounded-md bg-white px-4 py-3 shadow-sm" data-testid="controls-panel" disabled={disabled}>
       <legend className="sr-only">Controls over the horizon</legend>
       <p className="mb-2 text-sm font-medium text-river">Held over the {periodsWord(horizon, shape.periodNoun)}</p>
       <div className="flex flex-wrap gap-4">
@@ -42,11 +42,12 @@ export function ControlsPanel({ shape, horizon, controls, onChange, disabled }: 
                 value={value}
                 disabled={disabled}
                 onChange={(event) => {
+                  if (disabled) return;
                   const next = Number(event.currentTarget.value);
                   if (event.currentTarget.value.trim() === "" || !Number.isFinite(next)) return;
                   onChange(control.name, control.kind === "count" ? Math.max(0, Math.min(horizon, Math.round(next))) : next);
                 }}
-                className="num w-20 rounded border border-slate-300 bg-white px-2 py-1 text-right outline-none focus-visible:ring-2 focus-visible:ring-shallows"
+                className="num w-20 rounded border border-slate-300 bg-white px-2 py-1 text-right outline-none focus-visible:ring-2 focus-visible:ring-shallows disabled:bg-slate-100 disabled:text-slate-500"
               />
               {control.kind === "count" ? <span className="text-slate-500">of {horizon}</span> : null}
             </div>

@@ -45,6 +45,7 @@ export interface ScenarioRoomProps {
   /** The server's outcome of the plan the room opens with (the preview engine loads after the first paint). */
   initialOutcome: ScenarioOutcome | null;
   money: MoneyLocale;
+  /** May change the plan and save versions (scenario:write on an approved fit); otherwise the room is read-only. */
   canWrite: boolean;
   canPredict: boolean;
 }
@@ -203,7 +204,10 @@ export function ScenarioRoom({ scenario, fit, initialVersion, initialOutcome, mo
       const version = fetchedVersions.current.get(number) ?? (await scenarioApi.version(scenario.id, number));
       fetchedVersions.current.set(number, version);
       loadVersion(version);
-      setMessage({ tone: "ok", text: `Opened version ${number}. Saving makes a new version after version ${baseVersion}.` });
+      setMessage({
+        tone: "ok",
+        text: canWrite ? `Opened version ${number}. Saving makes a new version after version ${baseVersion}.` : `Opened version ${number} (read-only).`,
+      });
     } catch (error) {
       handleError(error);
     }
@@ -265,7 +269,7 @@ export function ScenarioRoom({ scenario, fit, initialVersion, initialOutcome, mo
         </div>
       ) : null}
 
-      {canPredict ? <SuggestPanel fitId={fit.id} store={store} controls={controls} shape={shape} money={money} canWrite={canWrite} /> : null}
+      {canWrite && canPredict ? <SuggestPanel fitId={fit.id} store={store} controls={controls} shape={shape} money={money} canWrite={canWrite} /> : null}
 
       <div className="grid gap-6 lg:grid-cols-[minmax(0,1fr)_minmax(0,28rem)]">
         <div className="space-y-4">
@@ -273,8 +277,8 @@ export function ScenarioRoom({ scenario, fit, initialVersion, initialOutcome, mo
             Amounts are per horizon in {money.currency}: {formatCents(allocation.totalCents, money)} over {allocation.horizonPeriods} {shape.periodNoun}s = {perPeriodTotal} per{" "}
             {shape.periodNoun}, the unit the model was fitted on (each channel&apos;s amount ÷ {allocation.horizonPeriods}, spread evenly).
           </p>
-          <MemoAllocationPanel store={store} money={money} periodNoun={shape.periodNoun} rangeWarnings={rangeWarnings} globalShortcuts />
-          <MemoControlsPanel shape={shape} horizon={allocation.horizonPeriods} controls={controls} onChange={setControl} disabled={!canWrite && !canPredict} />
+          <MemoAllocationPanel store={store} money={money} periodNoun={shape.periodNoun} rangeWarnings={rangeWarnings} globalShortcuts readOnly={!canWrite} />
+          <MemoControlsPanel shape={shape} horizon={allocation.horizonPeriods} controls={controls} onChange={setControl} disabled={!canWrite} />
           {canWrite ? (
             <div className="flex flex-wrap items-end gap-3 rounded-md bg-white px-4 py-3 shadow-sm">
               <label className="flex min-w-56 flex-1 flex-col gap-1 text-sm">
@@ -296,9 +300,7 @@ export function ScenarioRoom({ scenario, fit, initialVersion, initialOutcome, mo
                 {busy ? "Saving…" : `Save version ${baseVersion + 1}`}
               </button>
             </div>
-          ) : (
-            <p className="text-sm text-slate-600">You can read this scenario; planners save versions.</p>
-          )}
+          ) : null}
           <div aria-live="polite" data-testid="save-message">
             {message ? (
               <p className={`rounded-md border-l-4 px-3 py-2 text-sm ${message.tone === "ok" ? "border-reed bg-reed/10" : "border-ember bg-ember/10"}`} role={message.tone === "ok" ? "status" : "alert"}>

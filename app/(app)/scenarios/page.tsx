@@ -2,7 +2,9 @@ import type { Metadata } from "next";
 import Link from "next/link";
 import { can, requirePageActor } from "@/server/authz";
 import { listApprovedFits, listScenariosByWorkspace } from "@/server/scenarios/store";
+import { listScenarioSignoffSummaries } from "@/server/signoffs/summary";
 import { buttonClass } from "@/ui/button-class";
+import { SignoffSummary } from "@/ui/compare/signoff-summary";
 import { PageHeading, Section } from "@/ui/section";
 
 export const metadata: Metadata = { title: "Scenarios" };
@@ -11,9 +13,10 @@ export default async function ScenariosPage({ searchParams }: { searchParams: Pr
   const actor = await requirePageActor("scenario:read");
   const { fitId } = await searchParams;
   const validFit = fitId && /^[0-9a-f-]{36}$/i.test(fitId) ? fitId : undefined;
-  const [scenarios, approved] = await Promise.all([
+  const [scenarios, approved, signoffs] = await Promise.all([
     listScenariosByWorkspace({ workspaceId: actor.workspaceId, fitId: validFit }),
     listApprovedFits(actor.workspaceId),
+    listScenarioSignoffSummaries(actor.workspaceId),
   ]);
   const when = new Intl.DateTimeFormat(actor.locale, { dateStyle: "medium", timeStyle: "short", timeZone: "UTC" });
   const canWrite = can(actor, "scenario:write");
@@ -45,33 +48,38 @@ export default async function ScenariosPage({ searchParams }: { searchParams: Pr
         {scenarios.length === 0 ? (
           <p className="text-sm text-slate-700">No scenarios yet.</p>
         ) : (
-          <table className="num w-full text-sm">
+          <table className="num w-full text-sm" data-testid="scenario-list">
             <thead>
               <tr className="text-left text-xs text-slate-500">
                 <th className="py-1 font-medium">Scenario</th>
                 <th className="py-1 font-medium">Fit</th>
                 <th className="py-1 font-medium">Owner</th>
-                <th className="py-1 text-right font-medium">Versions</th>
+                <th className="py-1 text-right font-medium">Latest version</th>
+                <th className="py-1 pl-4 font-medium">Finance sign-off</th>
                 <th className="py-1 text-right font-medium">Last saved (UTC)</th>
               </tr>
             </thead>
             <tbody>
-              {scenarios.map((scenario) => (
-                <tr key={scenario.id} className="border-t border-slate-100">
-                  <td className="py-2">
-                    <Link href={`/scenarios/${scenario.id}`} className="font-medium text-shallows hover:underline">
-                      {scenario.name}
-                    </Link>
-                  </td>
-                  <td className="py-2">
-                    {scenario.fitName}
-                    {scenario.fitStatus !== "approved" ? <span className="ml-1 text-xs text-[#9f3f2c]">({scenario.fitStatus})</span> : null}
-                  </td>
-                  <td className="py-2">{scenario.ownerName ?? "—"}</td>
-                  <td className="py-2 text-right">{scenario.latestVersion ?? 0}</td>
-                  <td className="py-2 text-right">{scenario.latestSavedAt ? when.format(new Date(scenario.latestSavedAt)) : "—"}</td>
-                </tr>
-              ))}
+              {scenarios.map((scenario) => {
+                const signoff = signoffs.get(scenario.id);
+                return (
+                  <tr key={scenario.id} className="border-t border-slate-100" data-testid="scenario-row" data-scenario={scenario.id}>
+                    <td className="py-2">
+                      <Link href={`/scenarios/${scenario.id}`} className="font-medium text-shallows hover:underline">
+                        {scenario.name}
+                      </Link>
+                    </td>
+                    <td className="py-2">
+                      {scenario.fitName}
+                      {scenario.fitStatus !== "approved" ? <span className="ml-1 text-xs text-[#9f3f2c]">({scenario.fitStatus})</span> : null}
+                    </td>
+                    <td className="py-2">{scenario.ownerName ?? "—"}</td>
+                    <td className="py-2 text-right">{scenario.latestVersion === null ? "none saved" : `v${scenario.latestVersion}`}</td>
+                    <td className="py-2 pl-4">{signoff ? <SignoffSummary summary={signoff} /> : "—"}</td>
+                    <td className="py-2 text-right">{scenario.latestSavedAt ? when.format(new Date(scenario.latestSavedAt)) : "—"}</td>
+                  </tr>
+                );
+              })}
             </tbody>
           </table>
         )}

@@ -1,12 +1,15 @@
 import type { Metadata } from "next";
 import Link from "next/link";
 import { notFound } from "next/navigation";
-import { can, requirePageActor } from "@/server/authz";
+import { can, requirePageActor, roleLabels } from "@/server/authz";
 import { getCachedFit } from "@/server/predict/fit-cache";
 import { amountToCents } from "@/server/planning/allocation";
 import { scenarioOutcome } from "@/server/predict/scenario-outcome";
 import { moneyOf } from "@/server/predict/service";
 import { getScenarioById, getScenarioVersion } from "@/server/scenarios/store";
+import { getScenarioSignoffSummary } from "@/server/signoffs/summary";
+import { SignoffSummary } from "@/ui/compare/signoff-summary";
+import { ReadOnlyBanner } from "@/ui/scenario/read-only-banner";
 import { allocationFromPlan, planOf } from "@/ui/scenario/room-plan";
 import { ScenarioRoom } from "@/ui/scenario/scenario-room";
 import { ScenarioReviewSection } from "../../compare/_review/scenario-review-section";
@@ -21,12 +24,16 @@ export default async function ScenarioPage({ params }: { params: Promise<{ id: s
   if (!scenario || scenario.workspaceId !== actor.workspaceId) notFound();
   const fit = await getCachedFit(scenario.fitId);
   if (!fit || fit.workspaceId !== actor.workspaceId) notFound();
-  const latest = scenario.latestVersion === null ? null : await getScenarioVersion(scenario.id, scenario.latestVersion);
+  const [latest, signoff] = await Promise.all([
+    scenario.latestVersion === null ? null : getScenarioVersion(scenario.id, scenario.latestVersion),
+    getScenarioSignoffSummary(actor.workspaceId, scenario.id),
+  ]);
   const approved = fit.status === "approved";
   const money = moneyOf(actor);
   // The opening plan's outcome, computed here with the engine the room previews with (its chunk loads
   // after the first paint), exactly as the room would compute it.
   const opening = initialOutcome(fit, scenario, latest, money);
+  const plans = can(actor, "scenario:write");
   return (
     <div className="space-y-4">
       <div>
@@ -37,7 +44,24 @@ export default async function ScenarioPage({ params }: { params: Promise<{ id: s
           / on the fit <strong>{fit.name}</strong>
         </p>
         <h1 className="text-2xl font-semibold text-river">{scenario.name}</h1>
+        {signoff ? (
+          <p className="mt-1 flex flex-wrap items-center gap-2 text-sm text-slate-700" data-testid="scenario-header-signoff">
+            <span>Finance:</span>
+            <SignoffSummary summary={signoff} />
+            {signoff.latestVersion !== null ? (
+              <a href="#review" className="text-shallows hover:underline">
+                Finance review
+              </a>
+            ) : null}
+          </p>
+        ) : null}
       </div>
+      {!plans ? (
+        <ReadOnlyBanner
+          roles={actor.roles.map((role) => roleLabels[role]).join(" · ")}
+          can={{ compare: can(actor, "comparison:read"), comment: can(actor, "comment:write"), decide: can(actor, "signoff:decide") }}
+        />
+      ) : null}
       {!approved ? (
         <p role="alert" className="rounded-md border-l-4 border-ember bg-white px-4 py-3 text-sm">
           The fit “{fit.name}” is {fit.status.replace("_", " ")}: it no longer predicts, so this scenario can be read but not changed or saved.
@@ -49,7 +73,7 @@ export default async function ScenarioPage({ params }: { params: Promise<{ id: s
         initialVersion={latest}
         initialOutcome={opening}
         money={money}
-        canWrite={approved && can(actor, "scenario:write")}
+        canWrite={approved && plans}
         canPredict={approved && can(actor, "fit:predict")}
       />
       <ScenarioReviewSection actor={actor} scenario={scenario} />
