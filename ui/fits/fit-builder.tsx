@@ -1,7 +1,7 @@
 "use client";
 import { useRouter } from "next/navigation";
 import { useMemo, useState } from "react";
-import { defaultNeweyWestLag } from "@/server/stats";
+import { defaultNeweyWestLag } from "@/server/stats/covariance-choice";
 import { ApiErrorBox, type ApiErrorBody } from "@/ui/api-error-box";
 import { buttonClass } from "@/ui/button-class";
 

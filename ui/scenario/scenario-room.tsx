@@ -228,6 +228,7 @@ export function ScenarioRoom({ scenario, fit, initialVersion, initialOutcome, mo
 
   return (
     <div className="space-y-4">
+      {prediction.serverRequest}
       <div className="flex flex-wrap items-center justify-between gap-3">
         <p className="text-sm text-slate-700" data-testid="version-status">
           {opened ? (

@@ -1,10 +1,16 @@
 "use client";
 
-import { useEffect, useMemo, useRef, useState } from "react";
+import dynamic from "next/dynamic";
+import { createElement, type ReactNode, useCallback, useEffect, useMemo, useRef, useState } from "react";
 import type { MoneyLocale } from "@/server/planning/allocation";
 import type { PlanShape } from "@/server/predict/plan-shape";
 import type { ScenarioOutcome, ScenarioPlan } from "@/server/predict/scenario-outcome";
 import type { FitRecord } from "@/server/stats";
+import type { ServerAnswer } from "./server-prediction";
+
+
+// The server's answers come through react-query in a chunk loaded after the first paint (see there).
+const ServerPrediction = dynamic(() => import("./server-prediction"), { ssr: false });
 
 type Engine = typeof import("@/server/predict/scenario-outcome");
 let engine: Engine | null = null;
@@ -37,22 +43,6 @@ export function useDebouncedValue<T>(value: T, delayMs: number): T {
   return debounced;
 }
 
-export class PredictError extends Error {
-  constructor(
-    message: string,
-    readonly status: number,
-  ) {
-    super(message);
-  }
-}
-
-async function fetchPrediction(fitId: string, body: string, signal: AbortSignal): Promise<ScenarioOutcome> {
-  const response = await fetch(`/api/fits/${fitId}/predict`, { method: "POST", headers: { "content-type": "application/json" }, body, signal });
-  const json = (await response.json().catch(() => ({}))) as ScenarioOutcome & { error?: string };
-  if (!response.ok) throw new PredictError(json.error ?? `The prediction failed (${response.status}).`, response.status);
-  return json;
-}
-
 export type PredictionView = {
   outcome: ScenarioOutcome | null;
   /** "preview": computed in this browser from the fit record; "server": the server's answer for this exact plan. */
@@ -61,10 +51,9 @@ export type PredictionView = {
   error: string | null;
   /** Set when the preview itself cannot be computed (e.g. a negative amount typed). */
   previewError: string | null;
+  /** Render this in the room: it asks the server (nothing visible). */
+  serverRequest: ReactNode;
 };
-
-/** Server answers kept per room (plans revisited by undo or alternating moves are not asked again). */
-const ANSWERS_KEPT = 200;
 
 /**
  * The outcome of the plan on screen: an instant preview computed here with the pure engine from the
@@ -110,37 +99,10 @@ export function useScenarioPrediction(args: {
   }, [engineReady, record, shape, plan, baseline, money, body, openingBody, initialOutcome]);
 
   const debouncedBody = useDebouncedValue(body, PREDICT_DEBOUNCE_MS);
-  const answers = useRef(new Map<string, ScenarioOutcome>());
-  const [answer, setAnswer] = useState<{ body: string; outcome?: ScenarioOutcome; error?: string } | null>(null);
-  const [pending, setPending] = useState<string | null>(null);
-  useEffect(() => {
-    if (!canPredict) return;
-    const known = answers.current.get(debouncedBody);
-    if (known) {
-      setAnswer({ body: debouncedBody, outcome: known });
-      return;
-    }
-    const controller = new AbortController();
-    setPending(debouncedBody);
-    fetchPrediction(fitId, debouncedBody, controller.signal).then(
-      (outcome) => {
-        if (answers.current.size >= ANSWERS_KEPT) answers.current.clear();
-        answers.current.set(debouncedBody, outcome);
-        if (!controller.signal.aborted) setAnswer({ body: debouncedBody, outcome });
-      },
-      (error: unknown) => {
-        if (!controller.signal.aborted) setAnswer({ body: debouncedBody, error: error instanceof Error ? error.message : String(error) });
-      },
-    ).finally(() => {
-      if (!controller.signal.aborted) setPending((current) => (current === debouncedBody ? null : current));
-    });
-    return () => {
-      controller.abort();
-      setPending((current) => (current === debouncedBody ? null : current));
-    };
-  }, [fitId, debouncedBody, canPredict]);
-
-  const confirmed = answer?.outcome !== undefined && answer.body === debouncedBody && debouncedBody === body ? answer.outcome : null;
+  const [answer, setAnswer] = useState<ServerAnswer | null>(null);
+  const onAnswer = useCallback((next: ServerAnswer) => setAnswer(next), []);
+  const current = answer !== null && answer.body === debouncedBody ? answer : null;
+  const confirmed = current?.outcome !== undefined && debouncedBody === body ? current.outcome : null;
   useEffect(() => {
     if (confirmed && typeof performance !== "undefined") performance.mark(PREDICTION_CONFIRMED_MARK);
   }, [confirmed]);
@@ -152,8 +114,10 @@ export function useScenarioPrediction(args: {
   return {
     outcome,
     source: confirmed ? "server" : "preview",
-    fetching: pending !== null || debouncedBody !== body,
-    error: answer?.error !== undefined && answer.body === debouncedBody ? answer.error : null,
+    // Until the request's chunk has loaded and answered, the plan on screen is still being asked about.
+    fetching: debouncedBody !== body || (canPredict && (current === null || current.fetching)),
+    error: current?.error ?? null,
     previewError: preview.error,
+    serverRequest: createElement(ServerPrediction, { fitId, body: debouncedBody, enabled: canPredict, onAnswer }),
   };
 }
