@@ -4,6 +4,8 @@ import { can, requirePageActor, roleDescriptions, roleLabels } from "@/server/au
 import { listAuditEventsByWorkspaceId } from "@/server/data/audit";
 import { listMembersByWorkspaceId } from "@/server/data/members";
 import { listApprovedFits, listScenariosByWorkspace } from "@/server/scenarios/store";
+import { listScenarioSignoffSummaries } from "@/server/signoffs/summary";
+import { SignoffSummary } from "@/ui/compare/signoff-summary";
 import { Section, RoleBadge } from "@/ui/section";
 import { describeAuditEvent } from "@/ui/audit-event";
 
@@ -11,11 +13,12 @@ export const metadata: Metadata = { title: "Home" };
 
 export default async function HomePage() {
   const actor = await requirePageActor("workspace:read");
-  const [events, members, approvedFits, scenarios] = await Promise.all([
+  const [events, members, approvedFits, scenarios, signoffs] = await Promise.all([
     listAuditEventsByWorkspaceId({ workspaceId: actor.workspaceId, limit: 10, excludeObjectTypes: ["api_token"] }),
     listMembersByWorkspaceId(actor.workspaceId),
     can(actor, "fit:read") ? listApprovedFits(actor.workspaceId) : null,
     can(actor, "scenario:read") ? listScenariosByWorkspace({ workspaceId: actor.workspaceId }) : null,
+    can(actor, "scenario:read") ? listScenarioSignoffSummaries(actor.workspaceId) : null,
   ]);
   const firstName = (actor.name ?? actor.email).split(" ")[0];
   const when = new Intl.DateTimeFormat(actor.locale, { dateStyle: "medium", timeStyle: "short", timeZone: "UTC" });
@@ -129,16 +132,19 @@ export default async function HomePage() {
               ) : (
                 <ul className="flex flex-col divide-y divide-slate-100 text-sm">
                   {scenarios.slice(0, 5).map((scenario) => (
-                    <li key={scenario.id} className="flex flex-wrap justify-between gap-2 py-1.5">
+                    <li key={scenario.id} className="flex flex-wrap justify-between gap-2 py-1.5" data-testid="home-scenario" data-scenario={scenario.id}>
                       <span>
                         <Link href={`/scenarios/${scenario.id}`} className="text-shallows underline-offset-2 hover:underline">
                           {scenario.name}
                         </Link>
                         <span className="block text-xs text-slate-600">on {scenario.fitName}{scenario.ownerName ? ` · ${scenario.ownerName}` : ""}</span>
                       </span>
-                      <span className="num text-slate-500">
-                        {scenario.latestVersion ? `v${scenario.latestVersion}` : "no version saved"}
-                        {scenario.latestSavedAt ? ` · ${day.format(new Date(scenario.latestSavedAt))}` : ""}
+                      <span className="flex flex-col items-end gap-1">
+                        <span className="num text-slate-500">
+                          {scenario.latestVersion ? `v${scenario.latestVersion}` : "no version saved"}
+                          {scenario.latestSavedAt ? ` · ${day.format(new Date(scenario.latestSavedAt))}` : ""}
+                        </span>
+                        {scenario.latestVersion && signoffs?.get(scenario.id) ? <SignoffSummary summary={signoffs.get(scenario.id)!} /> : null}
                       </span>
                     </li>
                   ))}

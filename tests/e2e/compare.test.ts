@@ -165,6 +165,11 @@ describe("side by side with finance", () => {
     expect(await summary.textContent()).toContain(`Signed off v2 by ${financeAccount.name}`);
     expect(await page.locator(`[data-testid="scenario-row"][data-scenario="${scenarioId}"]`).textContent()).toContain("v2");
     await finance.screenshot("compare-04b-finance-scenarios-list");
+    // …and on the home page's newest scenarios
+    await page.goto("/");
+    const home = page.locator(`[data-testid="home-scenario"][data-scenario="${scenarioId}"] [data-testid="signoff-summary"]`);
+    expect(await home.getAttribute("data-state")).toBe("signed_off");
+    expect(await home.textContent()).toContain(`Signed off v2 by ${financeAccount.name}`);
     await page.goto(`/scenarios/${scenarioId}`);
     const header = page.getByTestId("scenario-header-signoff");
     expect(await header.getByTestId("signoff-summary").getAttribute("data-state")).toBe("signed_off");
