@@ -18,7 +18,6 @@
 import { execFileSync, spawn, type ChildProcess } from "node:child_process";
 import { once } from "node:events";
 import { createReadStream, createWriteStream, mkdtempSync, readdirSync, readFileSync, rmSync, statSync } from "node:fs";
-import { createServer, type AddressInfo } from "node:net";
 import { loadavg, tmpdir } from "node:os";
 import { join } from "node:path";
 import { monitorEventLoopDelay } from "node:perf_hooks";
@@ -26,6 +25,7 @@ import { Readable, type Writable } from "node:stream";
 import { drizzle } from "drizzle-orm/postgres-js";
 import { migrate } from "drizzle-orm/postgres-js/migrator";
 import postgres from "postgres";
+import { freePort as freePortOutsideReserved } from "./lib/free-port";
 
 const ROWS = Number(process.env.BENCH_ROWS ?? 1_000_000);
 const ROUNDS = Number(process.env.BENCH_ROUNDS ?? 3);
@@ -70,16 +70,7 @@ async function generate(path: string, rows: number): Promise<void> {
   await once(out, "finish");
 }
 
-async function freePort(): Promise<string> {
-  if (process.env.BENCH_PG_PORT) return process.env.BENCH_PG_PORT;
-  const server = createServer();
-  server.listen(0, "127.0.0.1");
-  await once(server, "listening");
-  const { port } = server.address() as AddressInfo;
-  server.close();
-  await once(server, "close");
-  return String(port);
-}
+const freePort = () => freePortOutsideReserved(process.env.BENCH_PG_PORT);
 
 function startThrowawayCluster(dir: string, port: string): { url: string; stop: () => void; dataDir: string } {
   const env = { ...process.env, PGDATA_DIR: join(dir, "pg"), PGPORT: port, PGSOCK_DIR: join(dir, "sock"), PGLOG: join(dir, "pg.log") };
