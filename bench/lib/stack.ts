@@ -5,7 +5,6 @@
 // override). Everything is stopped by `stop()`, on Ctrl-C, and on exit.
 import { mkdirSync, readdirSync, readFileSync, rmSync } from "node:fs";
 import path from "node:path";
-import { once } from "node:events";
 import { randomSecret, resolveEnv, startDefaults, type Env } from "../../scripts/env";
 import { acquireLock, type Lock } from "../../scripts/lock";
 import { buildIfNeeded, pgEnv, prepareDatabase, startAppProcesses, type Stack } from "../../scripts/stack";
