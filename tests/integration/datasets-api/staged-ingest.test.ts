@@ -117,6 +117,8 @@ describe("a large upload through the route and the dataset.ingest job", () => {
     const job = await (await getJob(apiRequest(`/api/jobs/${jobId}`, { token: team.tokens.analyst }), routeContext({ id: jobId }))).json();
     expect(job).toMatchObject({ status: "succeeded", result: { datasetId: expect.any(String), rowCount: 70_000 } });
     const datasetId = job.result.datasetId as string;
+    // where the outcome lives: the API resource and the page the browser opens (roles given: the history itself)
+    expect(job.links).toEqual({ self: `/api/jobs/${jobId}`, dataset: `/api/datasets/${datasetId}`, page: `/datasets/${datasetId}` });
     const dataset = await (await getDataset(apiRequest(`/api/datasets/${datasetId}`, { token: team.tokens.reviewer }), routeContext({ id: datasetId }))).json();
     expect(dataset).toMatchObject({ rowCount: 70_000, byteSize: file.length, originalFilename: "big.csv", uploadedByName: "analyst" });
     expect(dataset.columns.find((c: { name: string }) => c.name === "temperature")).toMatchObject({ role: "control", unit: "°C", min: -10, max: 30 });
@@ -153,6 +155,7 @@ describe("a large upload through the route and the dataset.ingest job", () => {
     ]);
     const job = await (await getJob(apiRequest(`/api/jobs/${jobId}`, { token: team.tokens.analyst }), routeContext({ id: jobId }))).json();
     expect(job).toMatchObject({ status: "failed", error: { message: outcome.message, details: outcome.details } });
+    expect(job.links).toEqual({ self: `/api/jobs/${jobId}` }); // nothing stored, nothing to link to
     expect(await uploadFootprint(team.workspace.id)).toEqual(before);
   });
 
