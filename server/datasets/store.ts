@@ -574,7 +574,12 @@ export type DatasetFrame = {
  */
 export async function loadDatasetFrame(
   datasetId: string,
-  options: { workspaceId?: string; columns?: string[] } = {},
+  options: {
+    workspaceId?: string;
+    columns?: string[];
+    /** After each column is read (they are read in parallel): how many of how many, and the rows of each. */
+    onColumnRead?: (read: number, of: number, rows: number) => void;
+  } = {},
 ): Promise<DatasetFrame | null> {
   const { sql } = getDatabase();
   const dataset = await selectDataset(sql, options.workspaceId ?? null, datasetId);
@@ -591,16 +596,25 @@ export async function loadDatasetFrame(
   const numeric = [...new Map([...used, ...wanted].map((c) => [c.position, c])).values()];
   const n = dataset.row_count;
   const values = new Map<number, Float64Array>();
+  const toRead = numeric.length + (period ? 1 : 0);
+  let read = 0;
+  const columnRead = () => options.onColumnRead?.(++read, toRead, n);
   await Promise.all(
-    numeric.map(async (c) => values.set(c.position, c.numericCount > 0 ? await fetchNumbers(sql, dataset.id, c.position, n) : new Float64Array(n).fill(NaN))),
+    numeric.map(async (c) => {
+      values.set(c.position, c.numericCount > 0 ? await fetchNumbers(sql, dataset.id, c.position, n) : new Float64Array(n).fill(NaN));
+      columnRead();
+    }),
   );
   let keys: Float64Array | null = null;
   let periodText: Array<string | undefined> | null = null;
   if (period) {
     keys = new Float64Array(n).fill(NaN);
-    if (period.kind === "numeric") keys.set(await fetchNumbers(sql, dataset.id, period.position, n));
-    else {
+    if (period.kind === "numeric") {
+      keys.set(await fetchNumbers(sql, dataset.id, period.position, n));
+      columnRead();
+    } else {
       periodText = await fetchTexts(sql, dataset.id, period.position, n);
+      columnRead();
       for (let i = 0; i < n; i++) {
         const t = periodText[i];
         if (t !== undefined) keys[i] = readPeriod(t, dataset.date_order);

@@ -18,12 +18,15 @@ async function main() {
       if (!run) return;
       await markJobRunning(run.id);
       let lastReport = 0;
+      let lastPhase: string | null = null;
       const context: JobContext = {
         run,
         progress: async (phase, done, total, message) => {
+          // at most five writes a second within a stage; a new stage and the last step always count
           const now = Date.now();
-          if (now - lastReport < 200 && total !== done) return;
+          if (now - lastReport < 200 && total !== done && phase === lastPhase) return;
           lastReport = now;
+          lastPhase = phase;
           await reportJobProgress(run.id, { phase, done, total, message });
         },
       };

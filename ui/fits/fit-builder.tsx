@@ -19,7 +19,7 @@ export type BuilderInitial = {
 };
 
 type ApiError = { error: string; details?: { path?: string; message: string; term?: string }[] };
-type JobView = { id: string; status: string; progress: { phase: string; done: number; total: number | null } | null };
+type JobView = { id: string; status: string; progress: { phase: string; done: number; total: number | null; message?: string } | null };
 
 /** Default request for a dataset: its outcome, every spend channel (linear) and every control. */
 function defaultsFor(dataset: BuilderDataset): BuilderInitial {
@@ -414,6 +414,7 @@ export function FitBuilder(props: {
             <div className="mt-3" data-testid="fit-job-progress">
               <p className="text-sm text-slate-700">
                 {job.status === "queued" ? "Waiting for a worker…" : (job.progress?.phase ?? "Starting…")}
+                {job.status !== "queued" && job.progress?.message ? <span className="text-slate-500"> · {job.progress.message}</span> : null}
               </p>
               <div
                 role="progressbar"
