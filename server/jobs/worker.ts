@@ -1,6 +1,7 @@
 import "server-only";
 import { jobHandlers, type JobContext } from "./handlers";
 import { getQueue, jobKinds } from "./queue";
+import { listenForJobs } from "./wake";
 import { completeJobRun, failJobRun, loadJobRunForWorker, markJobRunning, reportJobProgress } from "./runs";
 
 /**
@@ -10,10 +11,11 @@ import { completeJobRun, failJobRun, loadJobRunForWorker, markJobRunning, report
  */
 async function main() {
   const queue = await getQueue({ worker: true });
+  const workerIds = new Map<string, string>();
   for (const kind of jobKinds) {
     const loadHandler = jobHandlers[kind];
     if (!loadHandler) continue;
-    await queue.work<{ runId: string }>(kind, { batchSize: 1, pollingIntervalSeconds: 0.5 }, async ([job]) => {
+    const workerId = await queue.work<{ runId: string }>(kind, { batchSize: 1, pollingIntervalSeconds: 0.5 }, async ([job]) => {
       const run = await loadJobRunForWorker(job.data.runId);
       if (!run) return;
       await markJobRunning(run.id);
@@ -40,7 +42,13 @@ async function main() {
         console.error(`[worker] ${kind} ${run.id} failed: ${message}`);
       }
     });
+    workerIds.set(kind, workerId);
   }
+  // a web server that queues a job nudges us: take it now rather than at the next poll
+  await listenForJobs((kind) => {
+    const workerId = workerIds.get(kind);
+    if (workerId) queue.notifyWorker(workerId);
+  }).catch((error: unknown) => console.error(`[worker] not listening for new jobs (polling only): ${error instanceof Error ? error.message : String(error)}`));
   console.log(`[worker] taking ${jobKinds.join(", ")}`);
   const stop = async () => {
     await queue.stop({ graceful: true, timeout: 10_000 });
