@@ -3,6 +3,7 @@ import type { Readable } from "node:stream";
 import type postgres from "postgres";
 import { getDatabase } from "@/db/client";
 import { copyFrom, endCopy } from "./pg-copy";
+import { ChunkCopyParser } from "./chunk-copy";
 import { CopyBuffer, uuidBytes } from "./copy-binary";
 import type { DatasetUploadState } from "@/db/schema/dataset-uploads";
 import type { DatasetOptionsInput } from "./roles";
@@ -247,26 +248,6 @@ function* chunkTuple(uploadId: Buffer, seq: number, bytes: Buffer): Generator<Bu
   yield* out.take(true);
 }
 
-/** The (seq, bytes) tuples of a binary COPY TO STDOUT of `select seq, bytes …`. */
-function parseChunkCopy(data: Buffer): { seq: number; bytes: Buffer }[] {
-  const rows: { seq: number; bytes: Buffer }[] = [];
-  let at = 11 + 4; // signature, flags
-  at += 4 + data.readInt32BE(at); // header extension
-  for (;;) {
-    const fields = data.readInt16BE(at);
-    at += 2;
-    if (fields === -1) return rows;
-    if (fields !== 2) throw new Error(`staging: unexpected COPY tuple with ${fields} fields`);
-    const seqLength = data.readInt32BE(at);
-    const seq = data.readInt32BE(at + 4);
-    at += 4 + seqLength;
-    const length = data.readInt32BE(at);
-    at += 4;
-    rows.push({ seq, bytes: data.subarray(at, at + length) });
-    at += length;
-  }
-}
-
 async function readChunks(uploadId: string, from: number, limit: number): Promise<{ seq: number; bytes: Buffer }[]> {
   const { sql } = getDatabase();
   // binary COPY: the bytes arrive as they are stored (a plain select would send them as hex text)
@@ -276,13 +257,19 @@ async function readChunks(uploadId: string, from: number, limit: number): Promis
     )
     .readable()) as Readable;
   // flowing mode: postgres.js 3.4.9's COPY TO readable stalls when read with for-await past ~1 MB
-  const parts: Buffer[] = [];
+  const parser = new ChunkCopyParser();
   await new Promise<void>((resolve, reject) => {
-    stream.on("data", (part: Buffer) => parts.push(part));
+    stream.on("data", (part: Buffer) => {
+      try {
+        parser.push(part);
+      } catch (error) {
+        stream.destroy(error as Error);
+      }
+    });
     stream.once("end", resolve);
     stream.once("error", reject);
   });
-  return parseChunkCopy(Buffer.concat(parts));
+  return parser.finish();
 }
 
 const isUuid = (s: string) => /^[0-9a-f]{8}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{12}$/i.test(s);
