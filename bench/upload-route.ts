@@ -14,7 +14,8 @@
 // Needs PostgreSQL: DATABASE_URL when set (migrated here), else a throwaway cluster (scripts/pg.sh) in a
 // temporary folder, stopped and deleted at the end. Environment: BENCH_ROWS (default 1000000),
 // BENCH_ROUNDS (default 3), BENCH_PG_PORT, BENCH_PG_DATA (the data folder of DATABASE_URL's cluster, to count
-// its CPU), BENCH_KEEP_FILE=1. `--json` adds one machine-readable line.
+// its CPU), BENCH_KEEP_FILE=1, BENCH_WORKER_CPU_PROF=<folder> (the worker writes a V8 .cpuprofile there
+// when it stops). `--json` adds one machine-readable line.
 import { execFileSync, spawn, type ChildProcess } from "node:child_process";
 import { once } from "node:events";
 import { createReadStream, createWriteStream, mkdtempSync, readdirSync, readFileSync, rmSync, statSync } from "node:fs";
@@ -25,6 +26,7 @@ import { Readable, type Writable } from "node:stream";
 import { drizzle } from "drizzle-orm/postgres-js";
 import { migrate } from "drizzle-orm/postgres-js/migrator";
 import postgres from "postgres";
+import { WORKER_NODE_FLAGS } from "../scripts/worker-flags";
 import { freePort as freePortOutsideReserved } from "./lib/free-port";
 
 const ROWS = Number(process.env.BENCH_ROWS ?? 1_000_000);
@@ -124,9 +126,19 @@ function cpuBetween(before: Map<number, number>, after: Map<number, number>): nu
   return total;
 }
 
+/** The CPU of the busiest single PostgreSQL process between two snapshots (one backend runs on one core). */
+function busiestBetween(before: Map<number, number>, after: Map<number, number>): number {
+  let most = Number.NaN;
+  for (const [pid, cpu] of after) {
+    const used = cpu - (before.get(pid) ?? 0);
+    if (!(used <= most)) most = used;
+  }
+  return most;
+}
+
 /** The real worker process, as `npm start` runs it; resolves once it takes jobs. */
 async function startWorker(url: string): Promise<ChildProcess> {
-  const child = spawn(process.execPath, ["--conditions=react-server", "--import", "tsx", "server/jobs/worker.ts"], {
+  const child = spawn(process.execPath, [...(process.env.BENCH_WORKER_CPU_PROF ? ["--cpu-prof", `--cpu-prof-dir=${process.env.BENCH_WORKER_CPU_PROF}`] : []), ...WORKER_NODE_FLAGS, "--conditions=react-server", "--import", "tsx", "server/jobs/worker.ts"], {
     cwd: ROOT,
     env: { ...process.env, DATABASE_URL: url },
     stdio: ["ignore", "pipe", "pipe"],
@@ -239,13 +251,15 @@ async function main() {
       if (run.result.rowCount !== ROWS) throw new Error(`stored ${run.result.rowCount} rows`);
       const web = process.cpuUsage(web0);
       const workerCpu = processCpu(worker!.pid!) - worker0;
-      const pg = cpuBetween(pg0, pgCpu());
+      const pg1 = pgCpu();
+      const pg = cpuBetween(pg0, pg1);
+      const pgBusiest = busiestBetween(pg0, pg1);
       const jobSpan = (Date.parse(run.finished_at) - Date.parse(run.started_at)) / 1000;
       const datasetId = run.result.datasetId;
       return {
         seconds,
         note:
-          `202 after ${answered.toFixed(2)} s, job ran ${jobSpan.toFixed(2)} s; CPU web ${((web.user + web.system) / 1e6).toFixed(1)} s, worker ${workerCpu.toFixed(1)} s, PostgreSQL ${Number.isNaN(pg) ? "?" : pg.toFixed(1)} s; ` +
+          `202 after ${answered.toFixed(2)} s, job ran ${jobSpan.toFixed(2)} s; CPU web ${((web.user + web.system) / 1e6).toFixed(1)} s, worker ${workerCpu.toFixed(1)} s, PostgreSQL ${Number.isNaN(pg) ? "?" : `${pg.toFixed(1)} s (busiest backend ${pgBusiest.toFixed(1)} s)`}; ` +
           `web event-loop delay after the 202: p99 ${(delay.percentile(99) / 1e6).toFixed(0)} ms, max ${(delay.max / 1e6).toFixed(0)} ms`,
         cleanup: async () => {
           await deleteDataset({ workspaceId: workspace.id, datasetId });
@@ -271,10 +285,11 @@ async function main() {
         await once(copy, "finish");
       });
       const seconds = (performance.now() - start) / 1000;
-      const pg = cpuBetween(pg0, pgCpu());
+      const pg1 = pgCpu();
+      const pg = cpuBetween(pg0, pg1);
       return {
         seconds,
-        note: Number.isNaN(pg) ? "" : `raw COPY: CPU PostgreSQL ${pg.toFixed(1)} s`,
+        note: Number.isNaN(pg) ? "" : `raw COPY: CPU PostgreSQL ${pg.toFixed(1)} s (busiest backend ${busiestBetween(pg0, pg1).toFixed(1)} s)`,
         cleanup: async () => {
           const [{ n }] = await admin<{ n: number }[]>`select count(*)::int as n from bench_raw_copy`;
           if (n !== ROWS) throw new Error(`raw COPY stored ${n} rows`);
