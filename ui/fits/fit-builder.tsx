@@ -119,6 +119,7 @@ export function FitBuilder(props: {
     setPair(["", ""]);
   }
 
+  /** Polls the fit job until it ends; resolves with the page to open (the job's `links.page`). */
   async function poll(jobId: string): Promise<string> {
     for (;;) {
       await new Promise((resolve) => setTimeout(resolve, 800));
@@ -126,7 +127,7 @@ export function FitBuilder(props: {
       const body = await response.json();
       if (!response.ok) throw body as ApiError;
       setJob({ id: body.id, status: body.status, progress: body.progress });
-      if (body.status === "succeeded") return body.result.fitId as string;
+      if (body.status === "succeeded") return (body.links?.page as string | undefined) ?? `/fits/${body.result.fitId as string}`;
       if (body.status === "failed") throw { error: body.error?.message ?? "The fit failed.", details: body.error?.details ?? [] } as ApiError;
     }
   }
@@ -157,8 +158,7 @@ export function FitBuilder(props: {
       const result = await response.json().catch(() => ({ error: `The server answered ${response.status}.` }));
       if (response.status === 202) {
         setJob({ id: result.job.id, status: result.job.status, progress: null });
-        const fitId = await poll(result.job.id);
-        router.push(`/fits/${fitId}`);
+        router.push(await poll(result.job.id)); // the job's links.page: the stored fit's page
         return;
       }
       if (!response.ok) {
