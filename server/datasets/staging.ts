@@ -135,7 +135,7 @@ export async function stageUploadBody(
   // deleted, e.g. the ingest gave up on a bad file, nothing more is written and the caller learns it),
   // then the bytes by binary COPY (no hex text either way), committed at once for the reader.
   const idBytes = uuidBytes(uploadId);
-  const write = (bytes: Buffer, n: number, total: number) =>
+  const write = (bytes: Buffer[], length: number, n: number, total: number) =>
     sql.begin(async (tx) => {
       await tx`set local synchronous_commit = off`; // staged bytes are disposable (unlogged tables)
       const rows = await tx`
@@ -143,17 +143,19 @@ export async function stageUploadBody(
         where id = ${uploadId} and state = 'receiving' returning id`;
       if (rows.length === 0) throw new StagedUploadAborted(STOPPED);
       const copy = await copyFrom(tx, "copy dataset_upload_chunks (upload_id, seq, bytes) from stdin (format binary)");
-      await endCopy(tx, copy, [...chunkTuple(idBytes, n, bytes)]);
+      await endCopy(tx, copy, [...chunkTuple(idBytes, n, bytes, length)]);
     }) as Promise<void>;
 
   const flush = async () => {
     if (pieceBytes === 0) return;
-    const bytes = pieces.length === 1 ? pieces[0] : Buffer.concat(pieces, pieceBytes);
+    // the pieces as they came (no copy into one buffer): COPY sends them one after the other
+    const bytes = pieces;
+    const length = pieceBytes;
     pieces = [];
     pieceBytes = 0;
     // one write in flight while the next chunk arrives
     await writing;
-    writing = write(bytes, seq++, received);
+    writing = write(bytes, length, seq++, received);
     writing.catch(() => {});
   };
 
@@ -231,8 +233,8 @@ export async function cleanupStaleUploads(maxAgeMs = STAGING_MAX_AGE_MS): Promis
   return rows.length;
 }
 
-/** One binary-COPY tuple (upload_id, seq, bytes) with the format's header and trailer around it. */
-function* chunkTuple(uploadId: Buffer, seq: number, bytes: Buffer): Generator<Buffer> {
+/** One binary-COPY tuple (upload_id, seq, bytes) with the format's header and trailer around it; `bytes` in pieces. */
+function* chunkTuple(uploadId: Buffer, seq: number, bytes: Buffer[], length: number): Generator<Buffer> {
   const out = new CopyBuffer(64);
   out.header();
   out.ensure(2 + 20 + 8 + 4);
@@ -241,9 +243,9 @@ function* chunkTuple(uploadId: Buffer, seq: number, bytes: Buffer): Generator<Bu
   out.bytes(uploadId);
   out.int32(4);
   out.int32(seq);
-  out.int32(bytes.length);
+  out.int32(length);
   yield* out.take(true);
-  yield bytes;
+  yield* bytes;
   out.trailer();
   yield* out.take(true);
 }
