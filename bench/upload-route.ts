@@ -82,12 +82,19 @@ function startThrowawayCluster(dir: string, port: string): { url: string; stop: 
   return { url: `postgres://postgres@127.0.0.1:${port}/bench`, stop: () => pg("stop"), dataDir: join(dir, "pg") };
 }
 
+let ticksPerSecond: number | null = null;
+/** Clock ticks per second of /proc's CPU times (asked once: a child process costs CPU of its own). */
+function clockTicks(): number {
+  ticksPerSecond ??= Number(execFileSync("getconf", ["CLK_TCK"]).toString().trim()) || 100;
+  return ticksPerSecond;
+}
+
 /** CPU seconds (user + system) a process has used, from /proc. */
 function processCpu(pid: number): number {
   try {
     const stat = readFileSync(`/proc/${pid}/stat`, "utf8");
     const fields = stat.slice(stat.lastIndexOf(")") + 2).split(" ");
-    const ticks = Number(execFileSync("getconf", ["CLK_TCK"]).toString().trim()) || 100;
+    const ticks = clockTicks();
     return (Number(fields[11]) + Number(fields[12])) / ticks;
   } catch {
     return Number.NaN;
@@ -103,7 +110,7 @@ function clusterCpu(dataDir: string): Map<number, number> {
   } catch {
     return out;
   }
-  const ticks = Number(execFileSync("getconf", ["CLK_TCK"]).toString().trim()) || 100;
+  const ticks = clockTicks();
   for (const entry of readdirSync("/proc")) {
     if (!/^\d+$/.test(entry)) continue;
     let stat: string;
@@ -222,9 +229,10 @@ async function main() {
 
     async function endToEnd(): Promise<Measured> {
       await admin`checkpoint`;
-      const web0 = process.cpuUsage();
+      // the other snapshots first: reading /proc is not the web process's work
       const worker0 = processCpu(worker!.pid!);
       const pg0 = pgCpu();
+      const web0 = process.cpuUsage();
       const start = performance.now();
       const request = new Request(`http://localhost/api/datasets?${query}`, {
         method: "POST",
