@@ -159,6 +159,24 @@ describe("a large upload through the route and the dataset.ingest job", () => {
     expect(await uploadFootprint(team.workspace.id)).toEqual(before);
   });
 
+  it("stores nothing when only the role check finds a problem (after every row was read and the original's copy began)", async () => {
+    const file = bigCsv(60_000, (row, line) => (row === 59_990 ? line.replace(/^([^,]*,[^,]*,[^,]*,)[^,]*/, "$1-7.5") : line));
+    const before = await uploadFootprint(team.workspace.id);
+    const earlier = await ingestJobsSoFar(team.workspace.id);
+    const query = `filename=late.csv&options=${encodeURIComponent(JSON.stringify({ roles }))}`;
+    const responding = upload(
+      streamingRequest(team.tokens.analyst, slowly(file), { "content-type": "text/csv", "content-length": String(file.length) }, query),
+      routeContext(),
+    );
+    const jobId = await waitForJob(team.workspace.id, earlier);
+    const outcome = await runIngestJob(jobId);
+    expect((await responding).status).toBe(202);
+    expect(outcome.ok).toBe(false);
+    if (outcome.ok) return;
+    expect(outcome.details).toEqual([expect.objectContaining({ kind: "negative-spend", row: 59_990, column: "radio" })]);
+    expect(await uploadFootprint(team.workspace.id)).toEqual(before);
+  });
+
   it("stores nothing when the client goes away mid-upload (the job fails, staging is emptied)", async () => {
     const file = bigCsv(70_000);
     const before = await uploadFootprint(team.workspace.id);
