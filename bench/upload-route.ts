@@ -14,11 +14,11 @@
 // Needs PostgreSQL: DATABASE_URL when set (migrated here), else a throwaway cluster (scripts/pg.sh) in a
 // temporary folder, stopped and deleted at the end. Environment: BENCH_ROWS (default 1000000),
 // BENCH_ROUNDS (default 3), BENCH_PG_PORT, BENCH_PG_DATA (the data folder of DATABASE_URL's cluster, to count
-// its CPU), BENCH_KEEP_FILE=1. `--json` adds one machine-readable line.
+// its CPU), BENCH_KEEP_FILE=1, BENCH_WORKER_CPU_PROF=<folder> (the worker writes a V8 .cpuprofile there
+// when it stops). `--json` adds one machine-readable line.
 import { execFileSync, spawn, type ChildProcess } from "node:child_process";
 import { once } from "node:events";
 import { createReadStream, createWriteStream, mkdtempSync, readdirSync, readFileSync, rmSync, statSync } from "node:fs";
-import { createServer, type AddressInfo } from "node:net";
 import { loadavg, tmpdir } from "node:os";
 import { join } from "node:path";
 import { monitorEventLoopDelay } from "node:perf_hooks";
@@ -26,6 +26,8 @@ import { Readable, type Writable } from "node:stream";
 import { drizzle } from "drizzle-orm/postgres-js";
 import { migrate } from "drizzle-orm/postgres-js/migrator";
 import postgres from "postgres";
+import { WORKER_NODE_FLAGS } from "../scripts/worker-flags";
+import { freePort as freePortOutsideReserved } from "./lib/free-port";
 
 const ROWS = Number(process.env.BENCH_ROWS ?? 1_000_000);
 const ROUNDS = Number(process.env.BENCH_ROUNDS ?? 3);
@@ -70,16 +72,7 @@ async function generate(path: string, rows: number): Promise<void> {
   await once(out, "finish");
 }
 
-async function freePort(): Promise<string> {
-  if (process.env.BENCH_PG_PORT) return process.env.BENCH_PG_PORT;
-  const server = createServer();
-  server.listen(0, "127.0.0.1");
-  await once(server, "listening");
-  const { port } = server.address() as AddressInfo;
-  server.close();
-  await once(server, "close");
-  return String(port);
-}
+const freePort = () => freePortOutsideReserved(process.env.BENCH_PG_PORT);
 
 function startThrowawayCluster(dir: string, port: string): { url: string; stop: () => void; dataDir: string } {
   const env = { ...process.env, PGDATA_DIR: join(dir, "pg"), PGPORT: port, PGSOCK_DIR: join(dir, "sock"), PGLOG: join(dir, "pg.log") };
@@ -89,12 +82,19 @@ function startThrowawayCluster(dir: string, port: string): { url: string; stop: 
   return { url: `postgres://postgres@127.0.0.1:${port}/bench`, stop: () => pg("stop"), dataDir: join(dir, "pg") };
 }
 
+let ticksPerSecond: number | null = null;
+/** Clock ticks per second of /proc's CPU times (asked once: a child process costs CPU of its own). */
+function clockTicks(): number {
+  ticksPerSecond ??= Number(execFileSync("getconf", ["CLK_TCK"]).toString().trim()) || 100;
+  return ticksPerSecond;
+}
+
 /** CPU seconds (user + system) a process has used, from /proc. */
 function processCpu(pid: number): number {
   try {
     const stat = readFileSync(`/proc/${pid}/stat`, "utf8");
     const fields = stat.slice(stat.lastIndexOf(")") + 2).split(" ");
-    const ticks = Number(execFileSync("getconf", ["CLK_TCK"]).toString().trim()) || 100;
+    const ticks = clockTicks();
     return (Number(fields[11]) + Number(fields[12])) / ticks;
   } catch {
     return Number.NaN;
@@ -110,7 +110,7 @@ function clusterCpu(dataDir: string): Map<number, number> {
   } catch {
     return out;
   }
-  const ticks = Number(execFileSync("getconf", ["CLK_TCK"]).toString().trim()) || 100;
+  const ticks = clockTicks();
   for (const entry of readdirSync("/proc")) {
     if (!/^\d+$/.test(entry)) continue;
     let stat: string;
@@ -133,9 +133,19 @@ function cpuBetween(before: Map<number, number>, after: Map<number, number>): nu
   return total;
 }
 
+/** The CPU of the busiest single PostgreSQL process between two snapshots (one backend runs on one core). */
+function busiestBetween(before: Map<number, number>, after: Map<number, number>): number {
+  let most = Number.NaN;
+  for (const [pid, cpu] of after) {
+    const used = cpu - (before.get(pid) ?? 0);
+    if (!(used <= most)) most = used;
+  }
+  return most;
+}
+
 /** The real worker process, as `npm start` runs it; resolves once it takes jobs. */
 async function startWorker(url: string): Promise<ChildProcess> {
-  const child = spawn(process.execPath, ["--conditions=react-server", "--import", "tsx", "server/jobs/worker.ts"], {
+  const child = spawn(process.execPath, [...(process.env.BENCH_WORKER_CPU_PROF ? ["--cpu-prof", `--cpu-prof-dir=${process.env.BENCH_WORKER_CPU_PROF}`] : []), ...WORKER_NODE_FLAGS, "--conditions=react-server", "--import", "tsx", "server/jobs/worker.ts"], {
     cwd: ROOT,
     env: { ...process.env, DATABASE_URL: url },
     stdio: ["ignore", "pipe", "pipe"],
@@ -219,9 +229,10 @@ async function main() {
 
     async function endToEnd(): Promise<Measured> {
       await admin`checkpoint`;
-      const web0 = process.cpuUsage();
+      // the other snapshots first: reading /proc is not the web process's work
       const worker0 = processCpu(worker!.pid!);
       const pg0 = pgCpu();
+      const web0 = process.cpuUsage();
       const start = performance.now();
       const request = new Request(`http://localhost/api/datasets?${query}`, {
         method: "POST",
@@ -248,13 +259,15 @@ async function main() {
       if (run.result.rowCount !== ROWS) throw new Error(`stored ${run.result.rowCount} rows`);
       const web = process.cpuUsage(web0);
       const workerCpu = processCpu(worker!.pid!) - worker0;
-      const pg = cpuBetween(pg0, pgCpu());
+      const pg1 = pgCpu();
+      const pg = cpuBetween(pg0, pg1);
+      const pgBusiest = busiestBetween(pg0, pg1);
       const jobSpan = (Date.parse(run.finished_at) - Date.parse(run.started_at)) / 1000;
       const datasetId = run.result.datasetId;
       return {
         seconds,
         note:
-          `202 after ${answered.toFixed(2)} s, job ran ${jobSpan.toFixed(2)} s; CPU web ${((web.user + web.system) / 1e6).toFixed(1)} s, worker ${workerCpu.toFixed(1)} s, PostgreSQL ${Number.isNaN(pg) ? "?" : pg.toFixed(1)} s; ` +
+          `202 after ${answered.toFixed(2)} s, job ran ${jobSpan.toFixed(2)} s; CPU web ${((web.user + web.system) / 1e6).toFixed(1)} s, worker ${workerCpu.toFixed(1)} s, PostgreSQL ${Number.isNaN(pg) ? "?" : `${pg.toFixed(1)} s (busiest backend ${pgBusiest.toFixed(1)} s)`}; ` +
           `web event-loop delay after the 202: p99 ${(delay.percentile(99) / 1e6).toFixed(0)} ms, max ${(delay.max / 1e6).toFixed(0)} ms`,
         cleanup: async () => {
           await deleteDataset({ workspaceId: workspace.id, datasetId });
@@ -280,10 +293,11 @@ async function main() {
         await once(copy, "finish");
       });
       const seconds = (performance.now() - start) / 1000;
-      const pg = cpuBetween(pg0, pgCpu());
+      const pg1 = pgCpu();
+      const pg = cpuBetween(pg0, pg1);
       return {
         seconds,
-        note: Number.isNaN(pg) ? "" : `raw COPY: CPU PostgreSQL ${pg.toFixed(1)} s`,
+        note: Number.isNaN(pg) ? "" : `raw COPY: CPU PostgreSQL ${pg.toFixed(1)} s (busiest backend ${busiestBetween(pg0, pg1).toFixed(1)} s)`,
         cleanup: async () => {
           const [{ n }] = await admin<{ n: number }[]>`select count(*)::int as n from bench_raw_copy`;
           if (n !== ROWS) throw new Error(`raw COPY stored ${n} rows`);

@@ -9,7 +9,6 @@
 // (default 1000000), BENCH_ROUNDS (default 3), BENCH_KEEP_FILE=1 keeps the generated CSV.
 import { execFileSync } from "node:child_process";
 import { createReadStream, createWriteStream, mkdtempSync, readdirSync, readFileSync, rmSync, statSync } from "node:fs";
-import { createServer, type AddressInfo } from "node:net";
 import { loadavg, tmpdir } from "node:os";
 import { join } from "node:path";
 import { Readable, type Writable } from "node:stream";
@@ -17,6 +16,7 @@ import { once } from "node:events";
 import { drizzle } from "drizzle-orm/postgres-js";
 import { migrate } from "drizzle-orm/postgres-js/migrator";
 import postgres from "postgres";
+import { freePort as freePortOutsideReserved } from "./lib/free-port";
 
 const ROWS = Number(process.env.BENCH_ROWS ?? 1_000_000);
 const ROUNDS = Number(process.env.BENCH_ROUNDS ?? 3);
@@ -61,17 +61,7 @@ async function generate(path: string, rows: number): Promise<void> {
   await once(out, "finish");
 }
 
-/** A TCP port nobody listens on now (BENCH_PG_PORT when set). */
-async function freePort(): Promise<string> {
-  if (process.env.BENCH_PG_PORT) return process.env.BENCH_PG_PORT;
-  const server = createServer();
-  server.listen(0, "127.0.0.1");
-  await once(server, "listening");
-  const { port } = server.address() as AddressInfo;
-  server.close();
-  await once(server, "close");
-  return String(port);
-}
+const freePort = () => freePortOutsideReserved(process.env.BENCH_PG_PORT);
 
 /** CPU seconds used so far by each process of a PostgreSQL cluster: its postmaster and every child. */
 function clusterCpu(dataDir: string): Map<number, number> {

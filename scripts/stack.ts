@@ -4,6 +4,7 @@ import path from "node:path";
 import postgres from "postgres";
 import type { Env } from "./env";
 import { httpOk, isPortOpen, portOpen, type ProcessSpec, type Supervisor } from "./supervisor";
+import { WORKER_NODE_FLAGS } from "./worker-flags";
 
 const NODE = process.execPath;
 /** Runs a TypeScript file with tsx inside this node (one process, so signals reach it directly). */
@@ -61,7 +62,7 @@ export function appProcesses(stack: Stack): ProcessSpec[] {
   const next = ["node_modules/next/dist/bin/next", "start", "-H", "127.0.0.1", "-p", env.PORT];
   const table: (ProcessSpec | false)[] = [
     env.MAIL_SINK === "local" && { name: "mail", command: NODE, args: [...TSX, "scripts/mail-sink.ts"], env, readyCheck: portOpen(Number(env.SMTP_PORT), env.SMTP_HOST) },
-    existsSync("server/jobs/worker.ts") && { name: "worker", command: NODE, args: [...SERVER, ...TSX, "server/jobs/worker.ts"], env },
+    existsSync("server/jobs/worker.ts") && { name: "worker", command: NODE, args: [...WORKER_NODE_FLAGS, ...SERVER, ...TSX, "server/jobs/worker.ts"], env },
     { name: "web", command: NODE, args: next, env, readyCheck: httpOk(`http://127.0.0.1:${env.PORT}/api/ping`), readyTimeoutMs: 120_000 },
   ];
   return table.filter((spec): spec is ProcessSpec => Boolean(spec));

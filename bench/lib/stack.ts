@@ -4,13 +4,12 @@
 // `npm start`. Ports are free ones picked at start (BENCH_PG_PORT / BENCH_WEB_PORT / BENCH_SMTP_PORT
 // override). Everything is stopped by `stop()`, on Ctrl-C, and on exit.
 import { mkdirSync, readdirSync, readFileSync, rmSync } from "node:fs";
-import { createServer, type AddressInfo } from "node:net";
 import path from "node:path";
-import { once } from "node:events";
 import { randomSecret, resolveEnv, startDefaults, type Env } from "../../scripts/env";
 import { acquireLock, type Lock } from "../../scripts/lock";
 import { buildIfNeeded, pgEnv, prepareDatabase, startAppProcesses, type Stack } from "../../scripts/stack";
 import { Supervisor } from "../../scripts/supervisor";
+import { freePort } from "./free-port";
 
 export const BENCH_DIR = ".data-bench";
 export const BENCH_DIST_DIR = `${BENCH_DIR}/next`;
@@ -30,17 +29,7 @@ export interface BenchStack {
   stop(): Promise<void>;
 }
 
-/** A TCP port nobody listens on right now. */
-export async function freePort(preferred?: string): Promise<string> {
-  if (preferred) return preferred;
-  const server = createServer();
-  server.listen(0, "127.0.0.1");
-  await once(server, "listening");
-  const { port } = server.address() as AddressInfo;
-  server.close();
-  await once(server, "close");
-  return String(port);
-}
+export { freePort };
 
 export async function startBenchStack(options: { log?: (line: string) => void } = {}): Promise<BenchStack> {
   const say = options.log ?? ((line: string) => console.log(`[bench] ${line}`));

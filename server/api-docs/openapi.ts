@@ -53,6 +53,8 @@ const shared: Json = {
       status: { type: "string", enum: ["queued", "running", "succeeded", "failed"] },
       progress: {
         type: ["object", "null"],
+        description:
+          "The latest step: `done` of `total` (null when unknown). dataset.ingest: phases `Checking rows` and `Storing` in bytes of the file, then `Stored`. fit.run: on a scale of 0 to 100, `Checking the request` (0), `Reading rows` (5 to 60, column by column, the message counting rows and columns read), `Solving` (60), `Diagnostics` (80), `Storing` (90), `Stored` (100).",
         properties: { phase: { type: "string" }, done: { type: "number" }, total: { type: ["number", "null"] }, message: { type: "string" } },
       },
       result: { type: ["object", "null"], description: "For fit.run: `{ fitId, n, rSquared }`; for dataset.ingest: `{ datasetId, name, status, rowCount, columnCount, sha256, notes }`.", additionalProperties: true },
@@ -63,7 +65,22 @@ const shared: Json = {
       createdAt: { type: "string", format: "date-time" },
       startedAt: { type: ["string", "null"], format: "date-time" },
       finishedAt: { type: ["string", "null"], format: "date-time" },
-      links: { type: "object", properties: { self: { type: "string" }, fit: { type: "string" }, page: { type: "string" } } },
+      links: {
+        type: "object",
+        required: ["self"],
+        description:
+          "Where the job and, once it has `succeeded`, its outcome live. A succeeded `dataset.ingest` has `dataset` and `page`; a succeeded `fit.run` has `fit` and `page`. Queued, running and failed jobs have only `self`.",
+        properties: {
+          self: { type: "string", description: "This job: `/api/jobs/{id}`.", example: "/api/jobs/0b7c7f1e-2a4d-4c1e-9f3a-5d6e7f8a9b0c" },
+          dataset: { type: "string", description: "dataset.ingest: the stored spend history, `/api/datasets/{datasetId}`." },
+          fit: { type: "string", description: "fit.run: the stored fit, `/api/fits/{fitId}`." },
+          page: {
+            type: "string",
+            description:
+              "The page the browser opens: `/fits/{fitId}`; `/datasets/{datasetId}`, or `/datasets/{datasetId}/roles` while the history still needs its column roles (`result.status` `needs-roles`).",
+          },
+        },
+      },
     },
   },
 };
@@ -398,7 +415,8 @@ const jobs: Section = {
       get: {
         tags: ["Jobs"],
         summary: "Status, progress and result of a job",
-        description: "Any member of the workspace. Poll every second or so.",
+        description:
+          "Any member of the workspace. Poll every second or so until `succeeded` or `failed`. A succeeded job links what it made: `links.dataset` (dataset.ingest) or `links.fit` (fit.run), and `links.page`, the page to open.",
         parameters: [idParameter("job")],
         responses: { "200": jsonBody(ref("Job"), "The job."), "404": error("No such job in this workspace."), ...commonErrors },
       },

@@ -1,5 +1,4 @@
 import "server-only";
-import type { JobRunDto } from "@/server/jobs/runs";
 import type { Note } from "./problems";
 import type { DatasetDto, DatasetSummaryDto } from "./store";
 
@@ -27,11 +26,5 @@ export function datasetSummaryResponse(dataset: DatasetSummaryDto) {
   return { ...dataset, links: datasetLinks(dataset.id) };
 }
 
-/** A dataset.ingest job as the API sends it, with links to the spend history once it is stored. */
-export function ingestJobResponse(job: JobRunDto) {
-  const datasetId = typeof job.result?.datasetId === "string" ? job.result.datasetId : null;
-  return {
-    ...job,
-    links: { self: `/api/jobs/${job.id}`, ...(datasetId ? { dataset: `/api/datasets/${datasetId}`, page: `/datasets/${datasetId}` } : {}) },
-  };
-}
+/** A dataset.ingest job as the API sends it: the shape of every job (links.dataset and links.page once stored). */
+export { jobResponse as ingestJobResponse } from "@/server/jobs/api-shape";

@@ -16,6 +16,8 @@ export async function ingestStagedUpload(
 ): Promise<CreateDatasetResult & { upload: StagedUpload }> {
   const upload = await getStagedUpload(uploadId);
   if (!upload) throw new StagedUploadAborted("The upload is no longer there (it was interrupted or already processed).");
+  // after COMMIT the staged bytes are removed while the stored dataset is read back
+  const removal: { started: Promise<void> | null } = { started: null };
   try {
     const result = await createDataset({
       workspaceId: upload.workspaceId,
@@ -29,9 +31,13 @@ export async function ingestStagedUpload(
       // the original bytes are already in PostgreSQL: copy them there, in 1 MiB pieces like every upload
       storeOriginal: (tx, datasetId) => copyStagedFile(tx, uploadId, datasetId),
       beforeCommit: (tx, datasetId) => recordDatasetUploaded(tx, { datasetId, actorUserId: upload.createdBy, via: "background" }),
+      afterCommit: () => {
+        removal.started = deleteStagedUpload(uploadId);
+        removal.started.catch(() => {});
+      },
     });
     return { ...result, upload };
   } finally {
-    await deleteStagedUpload(uploadId);
+    await (removal.started ?? deleteStagedUpload(uploadId));
   }
 }

@@ -21,6 +21,11 @@ export type PipelineHooks = {
   rowsAdded?(store: ColumnStore, from: number, to: number): Promise<void>;
   bytes?(chunk: Buffer): void;
   progress?(bytesRead: number, rowsParsed: number): void;
+  /**
+   * After the last row was read and added, before the column profiles and the role check (CPU work of
+   * their own), while the file has no problem so far: database work started here overlaps with them.
+   */
+  readingDone?(file: ReadSummary): Promise<void>;
 };
 
 export type PipelineResult = {
@@ -75,6 +80,7 @@ export async function runPipeline(
       progress: hooks.progress,
     },
   );
+  if (hooks.readingDone && headerUsable && file.stopped === null && !problems.any) await hooks.readingDone(file);
   const { store, columns } = inspector.finish(file.stopped !== null);
   if (file.blankLines > 0) {
     problems.note({

@@ -3,6 +3,7 @@ import type { Readable } from "node:stream";
 import type postgres from "postgres";
 import { getDatabase } from "@/db/client";
 import { copyFrom, endCopy } from "./pg-copy";
+import { ChunkCopyParser } from "./chunk-copy";
 import { CopyBuffer, uuidBytes } from "./copy-binary";
 import type { DatasetUploadState } from "@/db/schema/dataset-uploads";
 import type { DatasetOptionsInput } from "./roles";
@@ -134,7 +135,7 @@ export async function stageUploadBody(
   // deleted, e.g. the ingest gave up on a bad file, nothing more is written and the caller learns it),
   // then the bytes by binary COPY (no hex text either way), committed at once for the reader.
   const idBytes = uuidBytes(uploadId);
-  const write = (bytes: Buffer, n: number, total: number) =>
+  const write = (bytes: Buffer[], length: number, n: number, total: number) =>
     sql.begin(async (tx) => {
       await tx`set local synchronous_commit = off`; // staged bytes are disposable (unlogged tables)
       const rows = await tx`
@@ -142,17 +143,19 @@ export async function stageUploadBody(
         where id = ${uploadId} and state = 'receiving' returning id`;
       if (rows.length === 0) throw new StagedUploadAborted(STOPPED);
       const copy = await copyFrom(tx, "copy dataset_upload_chunks (upload_id, seq, bytes) from stdin (format binary)");
-      await endCopy(tx, copy, [...chunkTuple(idBytes, n, bytes)]);
+      await endCopy(tx, copy, [...chunkTuple(idBytes, n, bytes, length)]);
     }) as Promise<void>;
 
   const flush = async () => {
     if (pieceBytes === 0) return;
-    const bytes = pieces.length === 1 ? pieces[0] : Buffer.concat(pieces, pieceBytes);
+    // the pieces as they came (no copy into one buffer): COPY sends them one after the other
+    const bytes = pieces;
+    const length = pieceBytes;
     pieces = [];
     pieceBytes = 0;
     // one write in flight while the next chunk arrives
     await writing;
-    writing = write(bytes, seq++, received);
+    writing = write(bytes, length, seq++, received);
     writing.catch(() => {});
   };
 
@@ -230,8 +233,8 @@ export async function cleanupStaleUploads(maxAgeMs = STAGING_MAX_AGE_MS): Promis
   return rows.length;
 }
 
-/** One binary-COPY tuple (upload_id, seq, bytes) with the format's header and trailer around it. */
-function* chunkTuple(uploadId: Buffer, seq: number, bytes: Buffer): Generator<Buffer> {
+/** One binary-COPY tuple (upload_id, seq, bytes) with the format's header and trailer around it; `bytes` in pieces. */
+function* chunkTuple(uploadId: Buffer, seq: number, bytes: Buffer[], length: number): Generator<Buffer> {
   const out = new CopyBuffer(64);
   out.header();
   out.ensure(2 + 20 + 8 + 4);
@@ -240,31 +243,11 @@ function* chunkTuple(uploadId: Buffer, seq: number, bytes: Buffer): Generator<Bu
   out.bytes(uploadId);
   out.int32(4);
   out.int32(seq);
-  out.int32(bytes.length);
+  out.int32(length);
   yield* out.take(true);
-  yield bytes;
+  yield* bytes;
   out.trailer();
   yield* out.take(true);
-}
-
-/** The (seq, bytes) tuples of a binary COPY TO STDOUT of `select seq, bytes …`. */
-function parseChunkCopy(data: Buffer): { seq: number; bytes: Buffer }[] {
-  const rows: { seq: number; bytes: Buffer }[] = [];
-  let at = 11 + 4; // signature, flags
-  at += 4 + data.readInt32BE(at); // header extension
-  for (;;) {
-    const fields = data.readInt16BE(at);
-    at += 2;
-    if (fields === -1) return rows;
-    if (fields !== 2) throw new Error(`staging: unexpected COPY tuple with ${fields} fields`);
-    const seqLength = data.readInt32BE(at);
-    const seq = data.readInt32BE(at + 4);
-    at += 4 + seqLength;
-    const length = data.readInt32BE(at);
-    at += 4;
-    rows.push({ seq, bytes: data.subarray(at, at + length) });
-    at += length;
-  }
 }
 
 async function readChunks(uploadId: string, from: number, limit: number): Promise<{ seq: number; bytes: Buffer }[]> {
@@ -276,13 +259,19 @@ async function readChunks(uploadId: string, from: number, limit: number): Promis
     )
     .readable()) as Readable;
   // flowing mode: postgres.js 3.4.9's COPY TO readable stalls when read with for-await past ~1 MB
-  const parts: Buffer[] = [];
+  const parser = new ChunkCopyParser();
   await new Promise<void>((resolve, reject) => {
-    stream.on("data", (part: Buffer) => parts.push(part));
+    stream.on("data", (part: Buffer) => {
+      try {
+        parser.push(part);
+      } catch (error) {
+        stream.destroy(error as Error);
+      }
+    });
     stream.once("end", resolve);
     stream.once("error", reject);
   });
-  return parseChunkCopy(Buffer.concat(parts));
+  return parser.finish();
 }
 
 const isUuid = (s: string) => /^[0-9a-f]{8}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{12}$/i.test(s);

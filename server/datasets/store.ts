@@ -6,7 +6,7 @@ import { getDatabase } from "@/db/client";
 import { isoDate, readPeriod, type DateOrder } from "./cells";
 import { CopyBuffer, encodeFileChunks, encodeRows, uuidBytes } from "./copy-binary";
 import { copyFrom, endCopy, openTransaction, writeCopy, type OpenTransaction } from "./pg-copy";
-import type { ByteSource, Delimiter, LineEnding } from "./csv-reader";
+import type { ByteSource, Delimiter, LineEnding, ReadSummary } from "./csv-reader";
 import type { ColumnKind, ColumnProfile, ColumnStore } from "./inspect";
 import { runPipeline, type PipelineHooks, type UploadProgress } from "./pipeline";
 import { ProblemList, type ProblemReport } from "./problems";
@@ -18,6 +18,7 @@ import {
   type ColumnRole,
   type DatasetOptionsInput,
   type MissingPolicy,
+  type RoleCheck,
 } from "./roles";
 
 /**
@@ -244,6 +245,8 @@ export type CreateDatasetInput = {
   storeOriginal?: (tx: postgres.TransactionSql, datasetId: string) => Promise<void>;
   /** Runs in the upload's transaction right before COMMIT (e.g. the audit entry); throwing rolls it all back. */
   beforeCommit?: (tx: postgres.TransactionSql, datasetId: string) => Promise<void>;
+  /** Runs right after COMMIT, while the stored dataset is read back (e.g. starts removing staged bytes). */
+  afterCommit?: () => void;
 };
 
 export type CreateDatasetResult =
@@ -301,6 +304,9 @@ export async function createDataset(input: CreateDatasetInput): Promise<CreateDa
   const encoder = new CopyBuffer();
   let transaction: OpenTransaction | null = null;
   let copy: Writable | null = null;
+  let columnCount = 0;
+  let rowsEnded = false;
+  let originalCopy: Promise<void> | null = null;
   const progress: UploadProgress = {
     phase: "reading",
     bytesRead: 0,
@@ -319,7 +325,8 @@ export async function createDataset(input: CreateDatasetInput): Promise<CreateDa
       progress.rowsParsed = rowsParsed;
       report();
     },
-    headerAccepted: async () => {
+    headerAccepted: async (_header, names) => {
+      columnCount = names.length;
       transaction = await openTransaction(sql);
       copy = await copyFrom(
         transaction.tx,
@@ -333,6 +340,57 @@ export async function createDataset(input: CreateDatasetInput): Promise<CreateDa
       for (const chunk of encoder.take()) await writeCopy(copy, chunk);
       progress.rowsStored = to;
     },
+    // With the original already in PostgreSQL (storeOriginal), its copy starts as soon as the last row
+    // is read: PostgreSQL copies it while this process profiles the columns and checks the roles. The
+    // dataset row goes in first (the file's pieces reference it); its role-dependent fields follow.
+    readingDone: input.storeOriginal
+      ? async (file) => {
+          const open = transaction as OpenTransaction | null;
+          const stream = copy as Writable | null;
+          if (!open || !stream) return;
+          await endRows(open, stream, file.rowCount);
+          await open.tx`insert into datasets ${open.tx(datasetRow(file, columnCount, null))}`;
+          originalCopy = input.storeOriginal!(open.tx, datasetId);
+          originalCopy.catch(() => {}); // awaited below, or the transaction is rolled back
+          // let the query reach the socket before the CPU-bound work that follows
+          await new Promise((resolve) => setImmediate(resolve));
+        }
+      : undefined,
+  };
+
+  const endRows = async (open: OpenTransaction, stream: Writable, rowCount: number) => {
+    progress.phase = "storing";
+    report();
+    encoder.trailer();
+    await endCopy(open.tx, stream, encoder.take(true));
+    rowsEnded = true;
+    progress.rowsStored = rowCount;
+    report();
+  };
+
+  const datasetRow = (file: ReadSummary, columns: number, roles: RoleCheck | null) => {
+    const ready = roles !== null;
+    return {
+      id: datasetId,
+      workspace_id: input.workspaceId,
+      name: input.name?.trim() ? input.name.trim().slice(0, 200) : baseName(input.originalFilename),
+      original_filename: input.originalFilename.slice(0, 500),
+      byte_size: file.byteSize,
+      sha256: file.sha256,
+      row_count: file.rowCount,
+      column_count: columns,
+      delimiter: file.delimiter,
+      has_bom: file.hasBom,
+      line_ending: file.lineEnding,
+      status: ready ? "ready" : "needs-roles",
+      missing_policy: options.missingPolicy,
+      dropped_row_count: roles ? roles.droppedRows.length : 0,
+      min_rows: options.minRows ?? null,
+      date_order: options.dateOrder,
+      uploaded_by: input.userId,
+      roles_assigned_by: ready ? input.userId : null,
+      roles_assigned_at: ready ? new Date().toISOString() : null,
+    };
   };
 
   const abort = async () => {
@@ -362,42 +420,24 @@ export async function createDataset(input: CreateDatasetInput): Promise<CreateDa
   }
 
   try {
-    progress.phase = "storing";
-    report();
-    encoder.trailer();
-    await endCopy(open.tx, stream, encoder.take(true));
+    if (!rowsEnded) await endRows(open, stream, file.rowCount);
     copy = null;
-    progress.rowsStored = file.rowCount;
-    report();
 
-    const ready = roles !== null;
-    await open.tx`
-      insert into datasets ${open.tx({
-        id: datasetId,
-        workspace_id: input.workspaceId,
-        name: input.name?.trim() ? input.name.trim().slice(0, 200) : baseName(input.originalFilename),
-        original_filename: input.originalFilename.slice(0, 500),
-        byte_size: file.byteSize,
-        sha256: file.sha256,
-        row_count: file.rowCount,
-        column_count: columns.length,
-        delimiter: file.delimiter,
-        has_bom: file.hasBom,
-        line_ending: file.lineEnding,
-        status: ready ? "ready" : "needs-roles",
-        missing_policy: options.missingPolicy,
-        dropped_row_count: roles ? roles.droppedRows.length : 0,
-        min_rows: options.minRows ?? null,
-        date_order: options.dateOrder,
-        uploaded_by: input.userId,
-        roles_assigned_by: ready ? input.userId : null,
-        roles_assigned_at: ready ? new Date().toISOString() : null,
-      })}`;
-    if (input.storeOriginal) await input.storeOriginal(open.tx, datasetId);
-    else {
-      const files = await copyFrom(open.tx, "copy dataset_files (dataset_id, seq, bytes) from stdin (format binary)");
-      const pieces = [...encodeFileChunks(fileChunks, idBytes)];
-      await endCopy(open.tx, files, pieces);
+    if (originalCopy) {
+      // the dataset row and the original are in already (readingDone): the fields the roles decide
+      await originalCopy;
+      const row = datasetRow(file, columns.length, roles);
+      await open.tx`
+        update datasets set ${open.tx(row, "status", "dropped_row_count", "roles_assigned_by", "roles_assigned_at", "column_count")}
+        where id = ${datasetId}`;
+    } else {
+      await open.tx`insert into datasets ${open.tx(datasetRow(file, columns.length, roles))}`;
+      if (input.storeOriginal) await input.storeOriginal(open.tx, datasetId);
+      else {
+        const files = await copyFrom(open.tx, "copy dataset_files (dataset_id, seq, bytes) from stdin (format binary)");
+        const pieces = [...encodeFileChunks(fileChunks, idBytes)];
+        await endCopy(open.tx, files, pieces);
+      }
     }
 
     await open.tx`
@@ -421,6 +461,7 @@ export async function createDataset(input: CreateDatasetInput): Promise<CreateDa
     await abort().catch(() => {});
     throw error;
   }
+  input.afterCommit?.();
   progress.phase = "done";
   report();
   const dataset = await getDatasetById({ workspaceId: input.workspaceId, datasetId });
@@ -574,7 +615,12 @@ export type DatasetFrame = {
  */
 export async function loadDatasetFrame(
   datasetId: string,
-  options: { workspaceId?: string; columns?: string[] } = {},
+  options: {
+    workspaceId?: string;
+    columns?: string[];
+    /** After each column is read (they are read in parallel): how many of how many, and the rows of each. */
+    onColumnRead?: (read: number, of: number, rows: number) => void;
+  } = {},
 ): Promise<DatasetFrame | null> {
   const { sql } = getDatabase();
   const dataset = await selectDataset(sql, options.workspaceId ?? null, datasetId);
@@ -591,16 +637,25 @@ export async function loadDatasetFrame(
   const numeric = [...new Map([...used, ...wanted].map((c) => [c.position, c])).values()];
   const n = dataset.row_count;
   const values = new Map<number, Float64Array>();
+  const toRead = numeric.length + (period ? 1 : 0);
+  let read = 0;
+  const columnRead = () => options.onColumnRead?.(++read, toRead, n);
   await Promise.all(
-    numeric.map(async (c) => values.set(c.position, c.numericCount > 0 ? await fetchNumbers(sql, dataset.id, c.position, n) : new Float64Array(n).fill(NaN))),
+    numeric.map(async (c) => {
+      values.set(c.position, c.numericCount > 0 ? await fetchNumbers(sql, dataset.id, c.position, n) : new Float64Array(n).fill(NaN));
+      columnRead();
+    }),
   );
   let keys: Float64Array | null = null;
   let periodText: Array<string | undefined> | null = null;
   if (period) {
     keys = new Float64Array(n).fill(NaN);
-    if (period.kind === "numeric") keys.set(await fetchNumbers(sql, dataset.id, period.position, n));
-    else {
+    if (period.kind === "numeric") {
+      keys.set(await fetchNumbers(sql, dataset.id, period.position, n));
+      columnRead();
+    } else {
       periodText = await fetchTexts(sql, dataset.id, period.position, n);
+      columnRead();
       for (let i = 0; i < n; i++) {
         const t = periodText[i];
         if (t !== undefined) keys[i] = readPeriod(t, dataset.date_order);

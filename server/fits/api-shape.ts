@@ -1,5 +1,4 @@
 import "server-only";
-import type { JobRunDto } from "@/server/jobs/runs";
 import type { FitDto, FitSummaryDto, FitTrailEntry } from "./types";
 
 /**
@@ -36,10 +35,5 @@ export function fitSummaryResponse(fit: FitSummaryDto) {
   return { ...fit, links: { self: `/api/fits/${fit.id}`, page: `/fits/${fit.id}` } };
 }
 
-export function jobResponse(job: JobRunDto) {
-  const fitId = typeof job.result?.fitId === "string" ? job.result.fitId : null;
-  return {
-    ...job,
-    links: { self: `/api/jobs/${job.id}`, ...(fitId ? { fit: `/api/fits/${fitId}`, page: `/fits/${fitId}` } : {}) },
-  };
-}
+/** A fit.run job as the API sends it (the same shape as every job). */
+export { jobResponse } from "@/server/jobs/api-shape";

@@ -23,7 +23,7 @@ function refusal(error: unknown): AppError {
  *
  * @throws AppError "invalid:fit" (422)
  */
-export function computeFit(input: {
+export type FitComputeInput = {
   specification: ModelSpecification;
   columns: NamedColumns;
   level: number;
@@ -32,7 +32,16 @@ export function computeFit(input: {
   periodLabels: readonly string[] | null;
   rowNumbers?: ArrayLike<number> | null;
   units: Record<string, string | null>;
-}): ComputedFit {
+};
+
+export function computeFit(input: FitComputeInput): ComputedFit {
+  return describeFit(input, solveFit(input));
+}
+
+export type SolvedFit = { design: ReturnType<typeof buildDesign>; fit: ReturnType<typeof fitLeastSquares> };
+
+/** The first stage of computeFit: the design and the least-squares solution (refusals as computeFit). */
+export function solveFit(input: FitComputeInput): SolvedFit {
   let design;
   let fit;
   try {
@@ -52,6 +61,11 @@ export function computeFit(input: {
       })),
     });
   }
+  return { design, fit };
+}
+
+/** The second stage of computeFit: the fit record and the report with its diagnostics. */
+export function describeFit(input: FitComputeInput, { design, fit }: SolvedFit): ComputedFit {
   let record: FitRecord;
   try {
     record = createFitRecord(fit);

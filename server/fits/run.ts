@@ -4,7 +4,7 @@ import { recordAudit } from "@/server/data/audit";
 import { getDatasetById, loadDatasetFrame, type DatasetDto } from "@/server/datasets/store";
 import { AppError } from "@/server/errors";
 import { type ModelSpecification, predictorColumns } from "@/server/stats";
-import { computeFit, type ComputedFit } from "./compute";
+import { describeFit, solveFit, type ComputedFit } from "./compute";
 import { designColumnCount, specificationFromInput } from "./specification";
 import { insertDraftFit, lockFitRow, updateFitNumbers } from "./store";
 import type { FitInput } from "./types";
@@ -51,19 +51,33 @@ export async function prepareFit(workspaceId: string, input: FitInput): Promise<
   return { dataset, specification };
 }
 
+/** Where a fit in progress is, for a job's progress bar. */
+export type FitStage =
+  | { stage: "reading"; columnsRead: number; columns: number; rows: number }
+  | { stage: "solving"; rows: number; terms: number }
+  | { stage: "diagnostics"; rows: number };
+
 /** Reads the rows the fit uses and fits them (the slow part: seconds for a million rows). */
-export async function executeFit(prepared: Prepared, input: FitInput, progress?: (phase: string) => Promise<void>): Promise<ComputedFit> {
+export async function executeFit(prepared: Prepared, input: FitInput, onStage?: (stage: FitStage) => Promise<void>): Promise<ComputedFit> {
   const { dataset, specification } = prepared;
-  await progress?.("Reading the rows");
+  // column reads finish in parallel: their reports are written one after the other, in order
+  let reported: Promise<void> = Promise.resolve();
+  const report = (stage: FitStage) => {
+    if (onStage) reported = reported.then(() => onStage(stage));
+    return reported;
+  };
+  await report({ stage: "reading", columnsRead: 0, columns: 0, rows: dataset.rowCount });
   const frame = await loadDatasetFrame(dataset.id, {
     workspaceId: dataset.workspaceId,
     columns: [specification.outcome, ...predictorColumns(specification)],
+    onColumnRead: (columnsRead, columns, rows) => void report({ stage: "reading", columnsRead, columns, rows }).catch(() => {}),
   });
+  await reported;
   if (!frame) throw new AppError("invalid:dataset", "No such spend history in this workspace.");
-  await progress?.("Fitting");
+  await report({ stage: "solving", rows: frame.n, terms: designColumnCount(input) });
   const units = Object.fromEntries(dataset.columns.map((column) => [column.name, column.unit]));
   const period = dataset.columns.find((column) => column.role === "period");
-  return computeFit({
+  const fitInput = {
     specification,
     columns: frame.columns,
     level: input.level,
@@ -72,7 +86,10 @@ export async function executeFit(prepared: Prepared, input: FitInput, progress?:
     periodLabels: frame.periods,
     rowNumbers: frame.rowNumbers,
     units,
-  });
+  };
+  const solved = solveFit(fitInput);
+  await report({ stage: "diagnostics", rows: frame.n });
+  return describeFit(fitInput, solved);
 }
 
 export function defaultFitName(input: FitInput): string {

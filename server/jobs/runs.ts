@@ -3,6 +3,7 @@ import { and, eq } from "drizzle-orm";
 import { db } from "@/db/client";
 import { jobRuns, type JobProgress, type JobRun } from "@/db/schema/jobs";
 import { getQueue, type JobKind } from "./queue";
+import { wakeWorkers } from "./wake";
 
 export type JobRunDto = Pick<
   JobRun,
@@ -27,6 +28,7 @@ export async function enqueueJob(params: {
     .returning();
   const queue = await getQueue();
   await queue.send(params.kind, { runId: run.id });
+  await wakeWorkers(params.kind);
   return toDto(run);
 }
 

@@ -22,6 +22,8 @@ type JobBody = {
   progress: { phase: string; done: number; total: number | null; message?: string } | null;
   result: { datasetId?: string; status?: string } | null;
   error: { message: string; details?: ApiProblem["details"] } | null;
+  /** `page`: the page to open once the job has succeeded. */
+  links?: { self: string; dataset?: string; page?: string };
 };
 
 /**
@@ -61,16 +63,16 @@ function UploadFormInner({ inlineLimitBytes, maxBytes }: { inlineLimitBytes: num
   useEffect(() => {
     if (phase.kind !== "job" || !job.data) return;
     if (job.data.status === "succeeded" && job.data.result?.datasetId) {
-      finish(job.data.result.datasetId, job.data.result.status !== "ready");
+      finish(job.data.result.datasetId, job.data.result.status !== "ready", job.data.links?.page);
     } else if (job.data.status === "failed") {
       const error = job.data.error ?? { message: "The upload failed." };
       setPhase({ kind: "failed", problem: { error: error.message, details: error.details ?? [] }, title: "Problems in the file" });
     }
   }, [job.data, phase.kind]);
 
-  function finish(datasetId: string, needsRoles: boolean) {
+  function finish(datasetId: string, needsRoles: boolean, page?: string) {
     setPhase({ kind: "done", datasetId, needsRoles });
-    router.push(needsRoles ? `/datasets/${datasetId}/roles` : `/datasets/${datasetId}`);
+    router.push(page ?? (needsRoles ? `/datasets/${datasetId}/roles` : `/datasets/${datasetId}`));
   }
 
   function choose(next: File | null) {

@@ -20,7 +20,7 @@ export type BuilderInitial = {
 };
 
 type ApiError = ApiErrorBody;
-type JobView = { id: string; status: string; progress: { phase: string; done: number; total: number | null } | null };
+type JobView = { id: string; status: string; progress: { phase: string; done: number; total: number | null; message?: string } | null };
 
 /** Default request for a dataset: its outcome, every spend channel (linear) and every control. */
 function defaultsFor(dataset: BuilderDataset): BuilderInitial {
@@ -120,6 +120,7 @@ export function FitBuilder(props: {
     setPair(["", ""]);
   }
 
+  /** Polls the fit job until it ends; resolves with the page to open (the job's `links.page`). */
   async function poll(jobId: string): Promise<string> {
     for (;;) {
       await new Promise((resolve) => setTimeout(resolve, 800));
@@ -127,7 +128,7 @@ export function FitBuilder(props: {
       const body = await response.json();
       if (!response.ok) throw body as ApiError;
       setJob({ id: body.id, status: body.status, progress: body.progress });
-      if (body.status === "succeeded") return body.result.fitId as string;
+      if (body.status === "succeeded") return (body.links?.page as string | undefined) ?? `/fits/${body.result.fitId as string}`;
       if (body.status === "failed") throw { error: body.error?.message ?? "The fit failed.", details: body.error?.details ?? [] } as ApiError;
     }
   }
@@ -158,8 +159,7 @@ export function FitBuilder(props: {
       const result = await response.json().catch(() => ({ error: `The server answered ${response.status}.` }));
       if (response.status === 202) {
         setJob({ id: result.job.id, status: result.job.status, progress: null });
-        const fitId = await poll(result.job.id);
-        router.push(`/fits/${fitId}`);
+        router.push(await poll(result.job.id)); // the job's links.page: the stored fit's page
         return;
       }
       if (!response.ok) {
@@ -415,6 +415,7 @@ export function FitBuilder(props: {
             <div className="mt-3" data-testid="fit-job-progress">
               <p className="text-sm text-slate-700">
                 {job.status === "queued" ? "Waiting for a worker…" : (job.progress?.phase ?? "Starting…")}
+                {job.status !== "queued" && job.progress?.message ? <span className="text-slate-500"> · {job.progress.message}</span> : null}
               </p>
               <div
                 role="progressbar"

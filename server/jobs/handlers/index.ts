@@ -4,7 +4,7 @@ import type { JobKind } from "../queue";
 
 export type JobContext = {
   run: JobRun;
-  /** Throttled progress report; the browser polls it. */
+  /** Progress report (the worker throttles repeats within one phase); the browser polls it. */
   progress: (phase: string, done: number, total: number | null, message?: string) => Promise<void>;
 };
 

@@ -117,6 +117,8 @@ describe("a large upload through the route and the dataset.ingest job", () => {
     const job = await (await getJob(apiRequest(`/api/jobs/${jobId}`, { token: team.tokens.analyst }), routeContext({ id: jobId }))).json();
     expect(job).toMatchObject({ status: "succeeded", result: { datasetId: expect.any(String), rowCount: 70_000 } });
     const datasetId = job.result.datasetId as string;
+    // where the outcome lives: the API resource and the page the browser opens (roles given: the history itself)
+    expect(job.links).toEqual({ self: `/api/jobs/${jobId}`, dataset: `/api/datasets/${datasetId}`, page: `/datasets/${datasetId}` });
     const dataset = await (await getDataset(apiRequest(`/api/datasets/${datasetId}`, { token: team.tokens.reviewer }), routeContext({ id: datasetId }))).json();
     expect(dataset).toMatchObject({ rowCount: 70_000, byteSize: file.length, originalFilename: "big.csv", uploadedByName: "analyst" });
     expect(dataset.columns.find((c: { name: string }) => c.name === "temperature")).toMatchObject({ role: "control", unit: "°C", min: -10, max: 30 });
@@ -153,6 +155,25 @@ describe("a large upload through the route and the dataset.ingest job", () => {
     ]);
     const job = await (await getJob(apiRequest(`/api/jobs/${jobId}`, { token: team.tokens.analyst }), routeContext({ id: jobId }))).json();
     expect(job).toMatchObject({ status: "failed", error: { message: outcome.message, details: outcome.details } });
+    expect(job.links).toEqual({ self: `/api/jobs/${jobId}` }); // nothing stored, nothing to link to
+    expect(await uploadFootprint(team.workspace.id)).toEqual(before);
+  });
+
+  it("stores nothing when only the role check finds a problem (after every row was read and the original's copy began)", async () => {
+    const file = bigCsv(60_000, (row, line) => (row === 59_990 ? line.replace(/^([^,]*,[^,]*,[^,]*,)[^,]*/, "$1-7.5") : line));
+    const before = await uploadFootprint(team.workspace.id);
+    const earlier = await ingestJobsSoFar(team.workspace.id);
+    const query = `filename=late.csv&options=${encodeURIComponent(JSON.stringify({ roles }))}`;
+    const responding = upload(
+      streamingRequest(team.tokens.analyst, slowly(file), { "content-type": "text/csv", "content-length": String(file.length) }, query),
+      routeContext(),
+    );
+    const jobId = await waitForJob(team.workspace.id, earlier);
+    const outcome = await runIngestJob(jobId);
+    expect((await responding).status).toBe(202);
+    expect(outcome.ok).toBe(false);
+    if (outcome.ok) return;
+    expect(outcome.details).toEqual([expect.objectContaining({ kind: "negative-spend", row: 59_990, column: "radio" })]);
     expect(await uploadFootprint(team.workspace.id)).toEqual(before);
   });
 

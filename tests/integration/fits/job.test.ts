@@ -23,9 +23,9 @@ afterAll(async () => {
 async function runJob(jobId: string) {
   const run = await loadJobRunForWorker(jobId);
   if (!run) throw new Error("job run missing");
-  const phases: string[] = [];
-  const result = await runFit({ run, progress: async (phase) => void phases.push(phase) });
-  return { result, phases };
+  const steps: { phase: string; done: number; total: number | null; message?: string }[] = [];
+  const result = await runFit({ run, progress: async (phase, done, total, message) => void steps.push({ phase, done, total, message }) });
+  return { result, phases: [...new Set(steps.map((step) => step.phase))], steps };
 }
 
 describe("fits of large datasets run as jobs", () => {
@@ -43,14 +43,23 @@ describe("fits of large datasets run as jobs", () => {
     expect((await (await poll(team.tokens.analyst)).json()).status).toBe("queued");
     expect((await poll(other.tokens.analyst)).status).toBe(404);
 
-    const { result, phases } = await runJob(job.id);
-    expect(phases).toEqual(["Checking the request", "Reading the rows", "Fitting", "Storing the fit"]);
+    const { result, phases, steps } = await runJob(job.id);
+    // stage progress, so the browser's bar moves during a long fit: every stage, in order, on one scale
+    expect(phases).toEqual(["Checking the request", "Reading rows", "Solving", "Diagnostics", "Storing", "Stored"]);
+    expect(steps.every((step) => step.total === 100)).toBe(true);
+    for (let i = 1; i < steps.length; i++) expect(steps[i].done).toBeGreaterThanOrEqual(steps[i - 1].done);
+    expect(new Set(steps.map((step) => step.done)).size).toBeGreaterThanOrEqual(6);
+    expect(steps.at(-1)).toMatchObject({ phase: "Stored", done: 100 });
+    // reading reports the rows and each column as it arrives
+    const reading = steps.filter((step) => step.phase === "Reading rows");
+    expect(reading.length).toBeGreaterThan(2);
+    expect(reading.at(-1)!.message).toMatch(/^156 rows: (\d+) of \1 columns read$/);
     // The worker (server/jobs/worker.ts) records the handler's result; do the same here.
     const { completeJobRun } = await import("@/server/jobs/runs");
     await completeJobRun(job.id, result);
     const done = await (await poll(team.tokens.analyst)).json();
     expect(done).toMatchObject({ status: "succeeded", result: { fitId: expect.any(String), n: 156 } });
-    expect(done.links.fit).toBe(`/api/fits/${done.result.fitId}`);
+    expect(done.links).toEqual({ self: `/api/jobs/${job.id}`, fit: `/api/fits/${done.result.fitId}`, page: `/fits/${done.result.fitId}` });
 
     const fit = await (await getFit(apiRequest(done.links.fit, { token: team.tokens.stranger }), routeContext({ id: done.result.fitId }))).json();
     expect(fit).toMatchObject({ status: "draft", authorId: team.members.analyst.id, n: 156 });

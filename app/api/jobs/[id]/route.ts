@@ -1,6 +1,6 @@
 import { AppError } from "@/server/errors";
-import { jobResponse } from "@/server/fits/api-shape";
 import { apiRoute, idParams } from "@/server/http/route";
+import { jobResponse } from "@/server/jobs/api-shape";
 import { getJobRunById } from "@/server/jobs/runs";
 
 /** A background job of this workspace (status, progress, result or error); another workspace's is 404. */
