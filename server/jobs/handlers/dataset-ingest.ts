@@ -12,6 +12,8 @@ import type { JobHandler } from "./index";
  * it with the reason. Nothing is stored in either case.
  */
 const PROGRESS_EVERY_MS = 200;
+/** …or whenever another 5% of the file has been read, so a small file that reads in a blink still shows steps. */
+const PROGRESS_EVERY_FRACTION = 0.05;
 
 const ingestDataset: JobHandler = async ({ run, progress }) => {
   const { uploadId } = run.input as { uploadId: string };
@@ -20,14 +22,17 @@ const ingestDataset: JobHandler = async ({ run, progress }) => {
   let pending: Promise<void> = Promise.resolve();
   let lastPhase: string | null = null;
   let lastAt = 0;
+  let lastBytes = 0;
   const result = await ingestStagedUpload(uploadId, {
     onProgress: (p) => {
       // the reader reports every 64 KB (about 1,500 times for 100 MB): pass on a new phase at once and
       // the rest a few times a second, before any formatting (toLocaleString is not cheap)
       const now = Date.now();
-      if (p.phase === lastPhase && now - lastAt < PROGRESS_EVERY_MS) return;
+      const step = p.totalBytes ? (p.bytesRead - lastBytes) / p.totalBytes : 0;
+      if (p.phase === lastPhase && now - lastAt < PROGRESS_EVERY_MS && step < PROGRESS_EVERY_FRACTION) return;
       lastPhase = p.phase;
       lastAt = now;
+      lastBytes = p.bytesRead;
       const message =
         p.phase === "storing"
           ? `Storing ${p.rowsParsed.toLocaleString("en")} rows`
