@@ -27,7 +27,7 @@ import { drizzle } from "drizzle-orm/postgres-js";
 import { migrate } from "drizzle-orm/postgres-js/migrator";
 import postgres from "postgres";
 import { WORKER_NODE_FLAGS } from "../scripts/worker-flags";
-import { freePort as freePortOutsideReserved } from "./lib/free-port";
+import { freePort as freePortOutsideReserved } from "../scripts/free-port";
 
 const ROWS = Number(process.env.BENCH_ROWS ?? 1_000_000);
 const ROUNDS = Number(process.env.BENCH_ROUNDS ?? 3);

@@ -9,7 +9,7 @@ import { randomSecret, resolveEnv, startDefaults, type Env } from "../../scripts
 import { acquireLock, type Lock } from "../../scripts/lock";
 import { buildIfNeeded, pgEnv, prepareDatabase, startAppProcesses, type Stack } from "../../scripts/stack";
 import { Supervisor } from "../../scripts/supervisor";
-import { freePort } from "./free-port";
+import { freePort } from "../../scripts/free-port";
 
 export const BENCH_DIR = ".data-bench";
 export const BENCH_DIST_DIR = `${BENCH_DIR}/next`;

@@ -3,24 +3,13 @@
 // `next start` of the build under test (NEXT_DIST_DIR, a free port), under the scripts' Supervisor. Logs go
 // to the e2e log folder as faults-<name>.log, so the log scan (security-logs test) reads them too.
 import { rmSync } from "node:fs";
-import { createServer, type AddressInfo } from "node:net";
-import { once } from "node:events";
 import path from "node:path";
 import postgres from "postgres";
 import { randomSecret, resolveEnv, startDefaults } from "@/scripts/env";
+import { freePort } from "@/scripts/free-port";
 import { appProcesses, databaseProcess, pgEnv, prepareDatabase, type Stack } from "@/scripts/stack";
 import { Supervisor, type ProcessSpec } from "@/scripts/supervisor";
 import { e2e } from "./support/env";
-
-async function freePort(): Promise<string> {
-  const server = createServer();
-  server.listen(0, "127.0.0.1");
-  await once(server, "listening");
-  const { port } = server.address() as AddressInfo;
-  server.close();
-  await once(server, "close");
-  return String(port);
-}
 
 /** Prefixes every process name, so the logs are faults-db.log, faults-web.log, … */
 function renamed(spec: ProcessSpec): ProcessSpec {

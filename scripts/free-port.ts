@@ -1,4 +1,4 @@
-// A free TCP port for a benchmark's own servers, never one of the ports `npm start` and `npm test`
+// A free TCP port for servers a benchmark or a test starts of its own, never one of the ports `npm start` and `npm test`
 // (with any TEST_PORT_OFFSET up to 99) use: the web 3000-3199, SMTP 2525-2699, PostgreSQL 54329-54499.
 import { once } from "node:events";
 import { createServer, type AddressInfo } from "node:net";
