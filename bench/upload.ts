@@ -7,8 +7,7 @@
 // cluster started with scripts/pg.sh in a temporary folder (port BENCH_PG_PORT, default a free one), stopped
 // and deleted at the end. Default server settings (fsync on) in both cases. Environment: BENCH_ROWS
 // (default 1000000), BENCH_ROUNDS (default 3), BENCH_KEEP_FILE=1 keeps the generated CSV.
-import { execFileSync } from "node:child_process";
-import { createReadStream, createWriteStream, mkdtempSync, readdirSync, readFileSync, rmSync, statSync } from "node:fs";
+import { createReadStream, mkdtempSync, rmSync, statSync } from "node:fs";
 import { loadavg, tmpdir } from "node:os";
 import { join } from "node:path";
 import { Readable, type Writable } from "node:stream";
@@ -16,94 +15,9 @@ import { once } from "node:events";
 import { drizzle } from "drizzle-orm/postgres-js";
 import { migrate } from "drizzle-orm/postgres-js/migrator";
 import postgres from "postgres";
-import { freePort as freePortOutsideReserved } from "../scripts/free-port";
+import { clusterCpu, cpuBetween, fmt, freePort, generate, HEADER, median, ROOT, ROUNDS, ROWS, SPEND, startThrowawayCluster } from "./lib/upload-common";
 
-const ROWS = Number(process.env.BENCH_ROWS ?? 1_000_000);
-const ROUNDS = Number(process.env.BENCH_ROUNDS ?? 3);
-const ROOT = new URL("..", import.meta.url).pathname;
-const SPEND = ["tv", "radio", "search", "social", "display", "video", "print", "ooh"];
-const HEADER = ["date", "sales", ...SPEND, "price", "temperature"];
 
-/** mulberry32: a small seeded generator, so every run writes the same file. */
-function random(seed: number) {
-  return () => {
-    seed = (seed + 0x6d2b79f5) | 0;
-    let t = Math.imul(seed ^ (seed >>> 15), 1 | seed);
-    t = (t + Math.imul(t ^ (t >>> 7), 61 | t)) ^ t;
-    return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
-  };
-}
-
-async function generate(path: string, rows: number): Promise<void> {
-  const out = createWriteStream(path);
-  const next = random(20261201);
-  const day0 = Date.UTC(1990, 0, 1);
-  let text = HEADER.join(",") + "\n";
-  for (let i = 0; i < rows; i++) {
-    const date = new Date(day0 + i * 86_400_000).toISOString().slice(0, 10);
-    let sales = 5000;
-    let line = "";
-    for (let s = 0; s < SPEND.length; s++) {
-      const spend = next() * 10_000 * (1 + s / 4);
-      sales += spend * (0.2 + s / 20);
-      line += "," + spend.toFixed(2);
-    }
-    const price = 8 + next() * 4;
-    const temperature = -10 + next() * 40;
-    sales += -300 * price + 20 * temperature + next() * 1000;
-    text += `${date},${sales.toFixed(2)}${line},${price.toFixed(3)},${temperature.toFixed(1)}\n`;
-    if (text.length > 1 << 20) {
-      if (!out.write(text)) await once(out, "drain");
-      text = "";
-    }
-  }
-  out.end(text);
-  await once(out, "finish");
-}
-
-const freePort = () => freePortOutsideReserved(process.env.BENCH_PG_PORT);
-
-/** CPU seconds used so far by each process of a PostgreSQL cluster: its postmaster and every child. */
-function clusterCpu(dataDir: string): Map<number, number> {
-  const postmaster = Number(readFileSync(join(dataDir, "postmaster.pid"), "utf8").split("\n")[0]);
-  const ticks = Number(execFileSync("getconf", ["CLK_TCK"]).toString().trim()) || 100;
-  const out = new Map<number, number>();
-  for (const entry of readdirSync("/proc")) {
-    if (!/^\d+$/.test(entry)) continue;
-    let stat: string;
-    try {
-      stat = readFileSync(`/proc/${entry}/stat`, "utf8");
-    } catch {
-      continue;
-    }
-    const fields = stat.slice(stat.lastIndexOf(")") + 2).split(" ");
-    const ppid = Number(fields[1]);
-    if (Number(entry) === postmaster || ppid === postmaster) out.set(Number(entry), (Number(fields[11]) + Number(fields[12])) / ticks);
-  }
-  return out;
-}
-
-/** CPU used between two snapshots by the processes alive at the second (exited ones were idle connections). */
-function cpuBetween(before: Map<number, number>, after: Map<number, number>): number {
-  let total = 0;
-  for (const [pid, cpu] of after) total += cpu - (before.get(pid) ?? 0);
-  return total;
-}
-
-function startThrowawayCluster(dir: string, port: string): { url: string; stop: () => void; dataDir: string } {
-  const env = { ...process.env, PGDATA_DIR: join(dir, "pg"), PGPORT: port, PGSOCK_DIR: join(dir, "sock"), PGLOG: join(dir, "pg.log") };
-  const pg = (...args: string[]) => execFileSync("bash", [join(ROOT, "scripts/pg.sh"), ...args], { env, stdio: ["ignore", "ignore", "inherit"] });
-  pg("start");
-  pg("createdb", "bench");
-  return { url: `postgres://postgres@127.0.0.1:${port}/bench`, stop: () => pg("stop"), dataDir: join(dir, "pg") };
-}
-
-const median = (xs: number[]) => {
-  const sorted = [...xs].sort((a, b) => a - b);
-  const mid = Math.floor(sorted.length / 2);
-  return sorted.length % 2 ? sorted[mid] : (sorted[mid - 1] + sorted[mid]) / 2;
-};
-const fmt = (n: number) => Math.round(n).toLocaleString("en-US");
 
 async function main() {
   const dir = mkdtempSync(join(tmpdir(), "tributary-bench-"));
