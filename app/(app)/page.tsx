@@ -20,6 +20,14 @@ export default async function HomePage() {
     can(actor, "scenario:read") ? listScenariosByWorkspace({ workspaceId: actor.workspaceId }) : null,
     can(actor, "scenario:read") ? listScenarioSignoffSummaries(actor.workspaceId) : null,
   ]);
+  // Finance's queue: latest versions shared and not yet decided (a newer version starts undecided).
+  const awaiting =
+    scenarios && signoffs && can(actor, "signoff:decide")
+      ? scenarios.flatMap((scenario) => {
+          const summary = signoffs.get(scenario.id);
+          return summary?.state === "awaiting" ? [{ scenario, summary }] : [];
+        })
+      : null;
   const firstName = (actor.name ?? actor.email).split(" ")[0];
   const when = new Intl.DateTimeFormat(actor.locale, { dateStyle: "medium", timeStyle: "short", timeZone: "UTC" });
   const day = new Intl.DateTimeFormat(actor.locale, { dateStyle: "medium", timeZone: "UTC" });
@@ -101,6 +109,28 @@ export default async function HomePage() {
         </Section>
       </div>
 
+      {awaiting ? (
+        <Section id="awaiting-signoff" title="Awaiting sign-off" description="Latest scenario versions shared with finance that no one has signed off or declined yet.">
+          {awaiting.length === 0 ? (
+            <p className="text-sm text-slate-700">Nothing is waiting for a decision.</p>
+          ) : (
+            <ul className="flex flex-col divide-y divide-slate-100 text-sm">
+              {awaiting.map(({ scenario, summary }) => (
+                <li key={scenario.id} className="flex flex-wrap items-center justify-between gap-3 py-2" data-testid="home-awaiting" data-scenario={scenario.id}>
+                  <span className="flex flex-col">
+                    <Link href={`/scenarios/${scenario.id}`} className="text-shallows underline-offset-2 hover:underline">
+                      {scenario.name}
+                    </Link>
+                    <span className="text-xs text-slate-600">on {scenario.fitName}{scenario.ownerName ? ` · ${scenario.ownerName}` : ""}</span>
+                  </span>
+                  <SignoffSummary summary={summary} />
+                </li>
+              ))}
+            </ul>
+          )}
+        </Section>
+      ) : null}
+
       {approvedFits || scenarios ? (
         <div className="grid gap-6 md:grid-cols-2">
           {approvedFits ? (
@@ -132,19 +162,17 @@ export default async function HomePage() {
               ) : (
                 <ul className="flex flex-col divide-y divide-slate-100 text-sm">
                   {scenarios.slice(0, 5).map((scenario) => (
-                    <li key={scenario.id} className="flex flex-wrap justify-between gap-2 py-1.5" data-testid="home-scenario" data-scenario={scenario.id}>
-                      <span>
+                    <li key={scenario.id} className="flex justify-between gap-3 py-2" data-testid="home-scenario" data-scenario={scenario.id}>
+                      <span className="flex min-w-0 flex-col items-start gap-1">
                         <Link href={`/scenarios/${scenario.id}`} className="text-shallows underline-offset-2 hover:underline">
                           {scenario.name}
                         </Link>
-                        <span className="block text-xs text-slate-600">on {scenario.fitName}{scenario.ownerName ? ` · ${scenario.ownerName}` : ""}</span>
-                      </span>
-                      <span className="flex flex-col items-end gap-1">
-                        <span className="num text-slate-500">
-                          {scenario.latestVersion ? `v${scenario.latestVersion}` : "no version saved"}
-                          {scenario.latestSavedAt ? ` · ${day.format(new Date(scenario.latestSavedAt))}` : ""}
-                        </span>
+                        <span className="text-xs text-slate-600">on {scenario.fitName}{scenario.ownerName ? ` · ${scenario.ownerName}` : ""}</span>
                         {scenario.latestVersion && signoffs?.get(scenario.id) ? <SignoffSummary summary={signoffs.get(scenario.id)!} /> : null}
+                      </span>
+                      <span className="num shrink-0 text-right text-slate-500">
+                        {scenario.latestVersion ? `v${scenario.latestVersion}` : "no version saved"}
+                        {scenario.latestSavedAt ? <span className="block text-xs">{day.format(new Date(scenario.latestSavedAt))}</span> : null}
                       </span>
                     </li>
                   ))}

@@ -112,6 +112,12 @@ describe("side by side with finance", () => {
   test("finance sees the notification, opens the comparison read-only, comments and signs off version 2", async () => {
     const { page } = finance;
     await signInAs(page, "finance");
+    // the home page lists the scenario as awaiting sign-off (its latest version, 2, is shared, undecided)
+    await page.goto("/");
+    const awaiting = page.locator(`[data-testid="home-awaiting"][data-scenario="${scenarioId}"]`);
+    expect(await awaiting.getByTestId("signoff-summary").getAttribute("data-state")).toBe("awaiting");
+    expect(await awaiting.textContent()).toContain("Awaiting sign-off of v2");
+    await finance.screenshot("compare-03a-finance-home-awaiting");
     const unread = Number(await page.getByTestId("notifications-link").getAttribute("data-unread"));
     expect(unread).toBeGreaterThanOrEqual(1);
     await page.getByTestId("notifications-link").click();
