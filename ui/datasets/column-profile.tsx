@@ -1,22 +1,9 @@
+import type { DatasetColumnDto } from "@/server/datasets/store";
 import { formatInUnit } from "@/ui/fits/format";
-import { roleLabels, type ColumnRoleName } from "./format";
+import { roleLabels } from "./format";
 
-export type ProfileColumn = {
-  position: number;
-  name: string;
-  kind: "numeric" | "period" | "text";
-  role: ColumnRoleName | null;
-  unit: string | null;
-  numericCount: number;
-  textCount: number;
-  missingCount: number;
-  min: number | null;
-  max: number | null;
-  mean: number | null;
-  std: number | null;
-  firstPeriod: string | null;
-  lastPeriod: string | null;
-};
+/** A column as the dataset page shows it (the stored column without its sample cells). */
+export type ProfileColumn = Omit<DatasetColumnDto, "sample">;
 
 /** Each column's role, unit, min / max / mean / standard deviation and missing count (tabular figures). */
 export function ColumnProfile({ columns, locale, rowCount }: { columns: ProfileColumn[]; locale: string; rowCount: number }) {

@@ -2,21 +2,13 @@
 
 import { useRouter } from "next/navigation";
 import { useMemo, useState } from "react";
+import type { DatasetColumnDto } from "@/server/datasets/store";
 import { buttonClass } from "@/ui/button-class";
 import { roleLabels, type ColumnRoleName } from "./format";
 import { ProblemReport, type ApiProblem } from "./problem-report";
 
-export type PickerColumn = {
-  position: number;
-  name: string;
-  kind: "numeric" | "period" | "text";
-  role: ColumnRoleName | null;
-  unit: string | null;
-  numericCount: number;
-  textCount: number;
-  missingCount: number;
-  sample: string[];
-};
+/** What the role picker needs of a stored column. */
+export type PickerColumn = Pick<DatasetColumnDto, "position" | "name" | "kind" | "role" | "unit" | "numericCount" | "textCount" | "missingCount" | "sample">;
 
 const OUTCOME_WORDS = /(^|[_\s-])(sales|revenue|turnover|orders|signups?|sign_ups|conversions|bookings|outcome|units_sold|leads)([_\s-]|$)/i;
 const SPEND_WORDS = /(spend|cost|budget|media|^tv|radio|search|social|display|video|podcast|e-?mail|ooh|outdoor|print|affiliate|influencer|_eur$|_usd$|_gbp$|_chf$)/i;
