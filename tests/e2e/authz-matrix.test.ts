@@ -4,12 +4,11 @@
 // Adding a route? Add one line to `routes` below: who may call it, the status an allowed caller gets,
 // and (if it needs one) the path of a real object and a body. The first test fails while any route
 // file under app/api has a method missing here.
-import { readdirSync, readFileSync } from "node:fs";
-import path from "node:path";
 import type postgres from "postgres";
 import { afterAll, beforeAll, describe, expect, test } from "vitest";
 import type { Role } from "@/db/schema/workspaces";
 import { demoChannels, demoControl } from "@/seed/history";
+import { discoverRoutes } from "./support/routes";
 import { api, createTokenFor, demoAccounts, testDatabase } from "./support/sign-in";
 
 type Method = "GET" | "POST" | "PUT" | "PATCH" | "DELETE";
@@ -177,26 +176,7 @@ const routes: RouteCase[] = [
 
 // --- discovery: every app/api/**/route.ts and the methods it exports --------------------------------
 
-const methodNames = ["GET", "POST", "PUT", "PATCH", "DELETE", "HEAD", "OPTIONS"];
 
-function discoverRoutes(dir = "app/api"): string[] {
-  const found: string[] = [];
-  for (const entry of readdirSync(dir, { withFileTypes: true })) {
-    const full = path.join(dir, entry.name);
-    if (entry.isDirectory()) found.push(...discoverRoutes(full));
-    else if (entry.name === "route.ts") {
-      const source = readFileSync(full, "utf8");
-      const exported = new Set<string>();
-      for (const m of source.matchAll(/export\s+(?:const|let|async\s+function|function)\s+([A-Z]+)\b/g)) exported.add(m[1]);
-      for (const m of source.matchAll(/export\s+(?:const\s+)?\{([^}]*)\}/g)) {
-        for (const name of m[1].split(",")) exported.add(name.trim().split(/\s+as\s+/).pop()!.trim());
-      }
-      const route = "/" + path.dirname(full).split(path.sep).join("/").replace(/^app\//, "");
-      for (const method of methodNames) if (exported.has(method)) found.push(`${method} ${route}`);
-    }
-  }
-  return found.sort();
-}
 
 // --- callers ------------------------------------------------------------------------------------------
 

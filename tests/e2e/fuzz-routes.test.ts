@@ -16,13 +16,14 @@
 //
 // Deterministic: a fixed seed (FUZZ_SEED to change it) and a bounded number of runs per route (FUZZ_RUNS,
 // default 50) keep the whole file well under two minutes (about 10–40 s on these machines).
-import { readdirSync, readFileSync } from "node:fs";
+import { readFileSync } from "node:fs";
 import { request as httpRequest } from "node:http";
 import path from "node:path";
 import fc from "fast-check";
 import type postgres from "postgres";
 import { afterAll, beforeAll, describe, expect, test } from "vitest";
 import { url } from "./support/env";
+import { discoverRoutes } from "./support/routes";
 import { api, createTokenFor, testDatabase } from "./support/sign-in";
 
 const SEED = Number(process.env.FUZZ_SEED ?? 20261201);
@@ -141,26 +142,10 @@ const routes: Entry[] = [
 ];
 const notJson = ["POST /api/auth/[...nextauth]", "POST /api/datasets"];
 
-// --- discovery (as in authz-matrix.test.ts) ---------------------------------------------------------------
+// --- discovery: support/routes.ts -------------------------------------------------------------------------
 
-function discoverMutations(dir = "app/api"): string[] {
-  const found: string[] = [];
-  for (const entry of readdirSync(dir, { withFileTypes: true })) {
-    const full = path.join(dir, entry.name);
-    if (entry.isDirectory()) found.push(...discoverMutations(full));
-    else if (entry.name === "route.ts") {
-      const source = readFileSync(full, "utf8");
-      const exported = new Set<string>();
-      for (const m of source.matchAll(/export\s+(?:const|let|async\s+function|function)\s+([A-Z]+)\b/g)) exported.add(m[1]);
-      for (const m of source.matchAll(/export\s+(?:const\s+)?\{([^}]*)\}/g)) {
-        for (const name of m[1].split(",")) exported.add(name.trim().split(/\s+as\s+/).pop()!.trim());
-      }
-      const route = "/" + path.dirname(full).split(path.sep).join("/").replace(/^app\//, "");
-      for (const method of ["POST", "PUT", "PATCH", "DELETE"]) if (exported.has(method)) found.push(`${method} ${route}`);
-    }
-  }
-  return found.sort();
-}
+const discoverMutations = () => discoverRoutes(["POST", "PUT", "PATCH", "DELETE"]);
+
 
 /** The route's body limit: its `maxBodyBytes`, else the wrapper's default (1 MB). */
 function bodyLimit(route: string): number {
