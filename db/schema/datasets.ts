@@ -68,13 +68,17 @@ export const datasets = pgTable(
  * The original file in 1 MiB chunks (seq 0, 1, …), stored uncompressed (STORAGE EXTERNAL, set in the
  * migration): CSV holds little that pglz gains on, and pglz made a 130 MB file take 8 s instead of 1.4 s.
  * Chunks rather than one bytea: a download streams them in order without holding 100+ MB in memory.
+ *
+ * A large upload writes its chunks here while it arrives, under the upload's id (dataset_uploads.id);
+ * the dataset its ingest creates takes that id, so the file is adopted, never copied. Until then the
+ * chunks have no dataset: no foreign key on purpose. A trigger on datasets deletes a dataset's chunks
+ * with it; the staging code deletes the chunks of uploads that never became a dataset
+ * (server/datasets/staging.ts).
  */
 export const datasetFiles = pgTable(
   "dataset_files",
   {
-    datasetId: uuid("dataset_id")
-      .notNull()
-      .references(() => datasets.id, { onDelete: "cascade" }),
+    datasetId: uuid("dataset_id").notNull(),
     seq: integer("seq").notNull(),
     bytes: bytea("bytes").notNull(),
   },

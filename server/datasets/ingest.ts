@@ -1,13 +1,13 @@
 import "server-only";
 import type { UploadProgress } from "./pipeline";
-import { copyStagedFile, deleteStagedUpload, getStagedUpload, readStagedUpload, StagedUploadAborted, type StagedUpload } from "./staging";
+import { deleteStagedUpload, getStagedUpload, readStagedUpload, StagedUploadAborted, type StagedUpload } from "./staging";
 import { createDataset, type CreateDatasetResult } from "./store";
 import { recordDatasetUploaded } from "./upload-audit";
 
 /**
  * The dataset.ingest job's work: read a staged upload (following it while it still arrives), parse,
- * check and store it with createDataset (one transaction, audit entry included), then delete the
- * staged bytes whatever happened. A bad file resolves `{ ok: false, report }`; an interrupted upload
+ * check and store it with createDataset (one transaction, audit entry included; the dataset adopts the
+ * staged bytes as its original file), then delete the upload, and its bytes unless adopted, whatever happened. A bad file resolves `{ ok: false, report }`; an interrupted upload
  * rejects with StagedUploadAborted. Either way nothing of it is stored.
  */
 export async function ingestStagedUpload(
@@ -16,7 +16,7 @@ export async function ingestStagedUpload(
 ): Promise<CreateDatasetResult & { upload: StagedUpload }> {
   const upload = await getStagedUpload(uploadId);
   if (!upload) throw new StagedUploadAborted("The upload is no longer there (it was interrupted or already processed).");
-  // after COMMIT the staged bytes are removed while the stored dataset is read back
+  // after COMMIT the upload's row is removed while the stored dataset is read back
   const removal: { started: Promise<void> | null } = { started: null };
   try {
     const result = await createDataset({
@@ -28,8 +28,8 @@ export async function ingestStagedUpload(
       options: upload.options,
       totalBytes: upload.declaredBytes,
       onProgress: options.onProgress,
-      // the original bytes are already in PostgreSQL: copy them there, in 1 MiB pieces like every upload
-      storeOriginal: (tx, datasetId) => copyStagedFile(tx, uploadId, datasetId),
+      // the original bytes are in dataset_files already, under the upload's id: the dataset takes it
+      adoptFileOf: uploadId,
       beforeCommit: (tx, datasetId) => recordDatasetUploaded(tx, { datasetId, actorUserId: upload.createdBy, via: "background" }),
       afterCommit: () => {
         removal.started = deleteStagedUpload(uploadId);

@@ -9,20 +9,26 @@ import type { DatasetUploadState } from "@/db/schema/dataset-uploads";
 import type { DatasetOptionsInput } from "./roles";
 
 /**
- * Staging of large uploads in PostgreSQL (tables dataset_uploads and dataset_upload_chunks), so any
- * worker on any machine can ingest what any web server received:
+ * Staging of large uploads in PostgreSQL (dataset_uploads, and the bytes as 1 MiB chunks in
+ * dataset_files under the upload's id), so any worker on any machine can ingest what any web server
+ * received:
  *
  *   web server                                   worker (dataset.ingest job)
  *   beginStagedUpload → enqueue the job  ──────▶ readStagedUpload follows the chunks as they arrive,
- *   stageUploadBody: 1 MiB chunks, each           parses, checks and COPYs (createDataset), then
- *     committed at once, then "received"          deleteStagedUpload whatever the outcome
- *   (or abortStagedUpload: the reader fails)
+ *   stageUploadBody: 4 chunks of 1 MiB per        parses, checks and COPYs (createDataset: the dataset
+ *     transaction, committed at once, then        takes the upload's id, so the chunks become its
+ *     "received"                                  original file as they are), then deleteStagedUpload
+ *   (or abortStagedUpload: the reader fails)      whatever the outcome
  *
- * The worker starts while the file is still arriving, so receiving and checking overlap. Staged bytes
- * are never a dataset: only the ingest's own transaction creates one.
+ * The worker starts while the file is still arriving, so receiving and checking overlap. The bytes are
+ * written once: a dataset adopts them instead of copying them. Chunks without a dataset are not a
+ * dataset's file (every read of a file starts from its dataset) and are deleted with their upload.
  */
 
-export const STAGING_CHUNK_BYTES = 4 * 1024 * 1024;
+/** Size of the chunks in dataset_files (every one but the last of a file has exactly this size). */
+export const FILE_CHUNK_BYTES = 1024 * 1024;
+/** How much the web server collects before it writes (whole chunks; the rest waits for more bytes). */
+export const STAGING_WRITE_BYTES = 4 * FILE_CHUNK_BYTES;
 /** A "receiving" upload with no new chunk for this long belongs to a web server that went away. */
 export const STAGING_STALL_MS = 60_000;
 /** Staged uploads older than this are removed by cleanupStaleUploads (the ingest runs it). */
@@ -125,37 +131,36 @@ export async function stageUploadBody(
   options: { maxBytes: number; onProgress?: (receivedBytes: number) => void; beforeReceived?: () => Promise<void> },
 ): Promise<{ receivedBytes: number; chunkCount: number }> {
   const { sql } = getDatabase();
-  let pieces: Buffer[] = [];
-  let pieceBytes = 0;
+  const pending = new PendingBytes();
   let received = 0;
   let seq = 0;
   let writing: Promise<void> = Promise.resolve();
 
-  // Each chunk in its own short transaction: the upload row first (locked; once it is aborted or
-  // deleted, e.g. the ingest gave up on a bad file, nothing more is written and the caller learns it),
-  // then the bytes by binary COPY (no hex text either way), committed at once for the reader.
+  // A few chunks per short transaction: the upload row first (locked; once it is aborted or deleted,
+  // e.g. the ingest gave up on a bad file, nothing more is written and the caller learns it), then the
+  // bytes by binary COPY (no hex text either way), committed at once for the reader. Asynchronous
+  // commit: an upload in flight is lost in a crash anyway, and the ingest's own (synchronous) commit
+  // comes later in the log, so a stored dataset never misses a chunk.
   const idBytes = uuidBytes(uploadId);
-  const write = (bytes: Buffer[], length: number, n: number, total: number) =>
+  const write = (chunks: Buffer[][], firstSeq: number, total: number) =>
     sql.begin(async (tx) => {
-      await tx`set local synchronous_commit = off`; // staged bytes are disposable (unlogged tables)
+      await tx`set local synchronous_commit = off`;
       const rows = await tx`
-        update dataset_uploads set chunk_count = ${n + 1}, received_bytes = ${total}, updated_at = now()
+        update dataset_uploads set chunk_count = ${firstSeq + chunks.length}, received_bytes = ${total}, updated_at = now()
         where id = ${uploadId} and state = 'receiving' returning id`;
       if (rows.length === 0) throw new StagedUploadAborted(STOPPED);
-      const copy = await copyFrom(tx, "copy dataset_upload_chunks (upload_id, seq, bytes) from stdin (format binary)");
-      await endCopy(tx, copy, [...chunkTuple(idBytes, n, bytes, length)]);
+      const copy = await copyFrom(tx, "copy dataset_files (dataset_id, seq, bytes) from stdin (format binary)");
+      await endCopy(tx, copy, [...chunkTuples(idBytes, firstSeq, chunks)]);
     }) as Promise<void>;
 
-  const flush = async () => {
-    if (pieceBytes === 0) return;
-    // the pieces as they came (no copy into one buffer): COPY sends them one after the other
-    const bytes = pieces;
-    const length = pieceBytes;
-    pieces = [];
-    pieceBytes = 0;
-    // one write in flight while the next chunk arrives
+  const flush = async (last: boolean) => {
+    // whole chunks only, but for the file's end; the pieces as they came (no copy into one buffer)
+    const chunks = pending.take(FILE_CHUNK_BYTES, last);
+    if (chunks.length === 0) return;
+    // one write in flight while the next bytes arrive
     await writing;
-    writing = write(bytes, length, seq++, received);
+    writing = write(chunks, seq, received - pending.size);
+    seq += chunks.length;
     writing.catch(() => {});
   };
 
@@ -164,14 +169,14 @@ export async function stageUploadBody(
       const chunk = Buffer.from(value.buffer, value.byteOffset, value.byteLength);
       received += chunk.length;
       if (received > options.maxBytes) throw new StagedUploadTooLarge(options.maxBytes);
-      pieces.push(chunk);
-      pieceBytes += chunk.length;
-      if (pieceBytes >= STAGING_CHUNK_BYTES) {
-        await flush();
+      pending.push(chunk);
+      // the first chunk goes alone, so the worker starts parsing sooner
+      if (pending.size >= (seq === 0 ? FILE_CHUNK_BYTES : STAGING_WRITE_BYTES)) {
+        await flush(false);
         options.onProgress?.(received);
       }
     }
-    await flush();
+    await flush(true);
     await writing;
     await options.beforeReceived?.();
     const rows = await sql`
@@ -192,22 +197,10 @@ export async function stageUploadBody(
   }
 }
 
-/**
- * The staged bytes as the dataset's original file (dataset_files, 1 MiB pieces in order), copied inside
- * PostgreSQL in the ingest's transaction: the bytes do not travel to the worker and back. The bytes are
- * the ones the ingest read (it reads only this upload's chunks, all of them, before it stores).
- */
-export async function copyStagedFile(tx: postgres.TransactionSql, uploadId: string, datasetId: string): Promise<void> {
-  await tx`
-    insert into dataset_files (dataset_id, seq, bytes)
-    select ${datasetId}, (row_number() over (order by c.seq, piece) - 1)::int,
-           substring(c.bytes from piece * ${FILE_PIECE_BYTES} + 1 for ${FILE_PIECE_BYTES})
-    from dataset_upload_chunks c, generate_series(0, (length(c.bytes) - 1) / ${FILE_PIECE_BYTES}) as piece
-    where c.upload_id = ${uploadId}
-    order by c.seq, piece`;
-}
-
-const FILE_PIECE_BYTES = 1024 * 1024;
+// The chunks of an upload no dataset adopted: deleting them never touches a dataset's file.
+const unadoptedChunks = (tx: postgres.Sql | postgres.TransactionSql, uploadId: string) => tx`
+  delete from dataset_files f where f.dataset_id = ${uploadId}
+  and not exists (select 1 from datasets d where d.id = ${uploadId})`;
 
 /** Marks an upload aborted (a reader following it fails) and frees its chunks at once. */
 export async function abortStagedUpload(uploadId: string, reason: string): Promise<void> {
@@ -215,39 +208,93 @@ export async function abortStagedUpload(uploadId: string, reason: string): Promi
   await sql.begin(async (tx) => {
     await tx`update dataset_uploads set state = 'aborted', abort_reason = ${reason.slice(0, 500)}, updated_at = now()
              where id = ${uploadId} and state <> 'aborted'`;
-    await tx`delete from dataset_upload_chunks where upload_id = ${uploadId}`;
+    await unadoptedChunks(tx, uploadId);
   });
 }
 
-/** Removes an upload and its chunks (after the ingest, whatever its outcome). */
+/** Removes an upload (after the ingest, whatever its outcome) and its chunks unless its dataset adopted them. */
 export async function deleteStagedUpload(uploadId: string): Promise<void> {
   const { sql } = getDatabase();
-  await sql`delete from dataset_uploads where id = ${uploadId}`;
+  await sql.begin(async (tx) => {
+    await tx`delete from dataset_uploads where id = ${uploadId}`;
+    await unadoptedChunks(tx, uploadId);
+  });
 }
 
-/** Removes staged uploads nobody will ingest any more (web server or worker died); returns how many. */
+/**
+ * Removes staged uploads nobody will ingest any more (web server or worker died) and chunks that
+ * belong to neither an upload nor a dataset (dataset_uploads is unlogged: a database crash empties it
+ * and leaves its chunks behind); returns how many uploads went. Safe beside uploads in progress: an
+ * upload's row is committed before its first chunk, and stays until its dataset has adopted them.
+ */
 export async function cleanupStaleUploads(maxAgeMs = STAGING_MAX_AGE_MS): Promise<number> {
   const { sql } = getDatabase();
-  const rows = await sql`
-    delete from dataset_uploads where updated_at < now() - make_interval(secs => ${maxAgeMs / 1000}) returning id`;
-  return rows.length;
+  return sql.begin(async (tx) => {
+    const rows = await tx`
+      delete from dataset_uploads where updated_at < now() - make_interval(secs => ${maxAgeMs / 1000}) returning id`;
+    await tx`
+      delete from dataset_files f
+      where not exists (select 1 from datasets d where d.id = f.dataset_id)
+        and not exists (select 1 from dataset_uploads u where u.id = f.dataset_id)`;
+    return rows.length;
+  });
 }
 
-/** One binary-COPY tuple (upload_id, seq, bytes) with the format's header and trailer around it; `bytes` in pieces. */
-function* chunkTuple(uploadId: Buffer, seq: number, bytes: Buffer[], length: number): Generator<Buffer> {
+/** Binary-COPY tuples (dataset_id, seq, bytes), seq counting from `firstSeq`, with the format's header and trailer; each chunk in pieces. */
+function* chunkTuples(uploadId: Buffer, firstSeq: number, chunks: Buffer[][]): Generator<Buffer> {
   const out = new CopyBuffer(64);
   out.header();
-  out.ensure(2 + 20 + 8 + 4);
-  out.int16(3);
-  out.int32(16);
-  out.bytes(uploadId);
-  out.int32(4);
-  out.int32(seq);
-  out.int32(length);
-  yield* out.take(true);
-  yield* bytes;
+  for (const [index, pieces] of chunks.entries()) {
+    out.ensure(2 + 20 + 8 + 4);
+    out.int16(3);
+    out.int32(16);
+    out.bytes(uploadId);
+    out.int32(4);
+    out.int32(firstSeq + index);
+    out.int32(pieces.reduce((sum, piece) => sum + piece.length, 0));
+    yield* out.take(true);
+    yield* pieces;
+  }
   out.trailer();
   yield* out.take(true);
+}
+
+/** Bytes received and not yet written, cut into chunks of a fixed size without copying them. */
+export class PendingBytes {
+  private pieces: Buffer[] = [];
+  size = 0;
+
+  push(piece: Buffer): void {
+    if (piece.length === 0) return;
+    this.pieces.push(piece);
+    this.size += piece.length;
+  }
+
+  /** As many whole chunks of `chunkBytes` as there are; with `all`, the remainder too, as a last shorter chunk. */
+  take(chunkBytes: number, all: boolean): Buffer[][] {
+    const chunks: Buffer[][] = [];
+    while (this.size >= chunkBytes || (all && this.size > 0)) {
+      const want = Math.min(chunkBytes, this.size);
+      const chunk: Buffer[] = [];
+      let got = 0;
+      while (got < want) {
+        const piece = this.pieces[0];
+        const need = want - got;
+        if (piece.length <= need) {
+          chunk.push(piece);
+          this.pieces.shift();
+          got += piece.length;
+        } else {
+          chunk.push(piece.subarray(0, need));
+          this.pieces[0] = piece.subarray(need);
+          got += need;
+        }
+      }
+      this.size -= want;
+      chunks.push(chunk);
+    }
+    return chunks;
+  }
 }
 
 async function readChunks(uploadId: string, from: number, limit: number): Promise<{ seq: number; bytes: Buffer }[]> {
@@ -255,7 +302,7 @@ async function readChunks(uploadId: string, from: number, limit: number): Promis
   // binary COPY: the bytes arrive as they are stored (a plain select would send them as hex text)
   const stream = (await sql
     .unsafe(
-      `copy (select seq, bytes from dataset_upload_chunks where upload_id = '${uploadId}' and seq >= ${from} order by seq limit ${limit}) to stdout (format binary)`,
+      `copy (select seq, bytes from dataset_files where dataset_id = '${uploadId}' and seq >= ${from} order by seq limit ${limit}) to stdout (format binary)`,
     )
     .readable()) as Readable;
   // flowing mode: postgres.js 3.4.9's COPY TO readable stalls when read with for-await past ~1 MB
@@ -293,7 +340,7 @@ export async function* readStagedUpload(
   const { sql } = getDatabase();
   const pollMs = options.pollMs ?? 50;
   const stallMs = options.stallMs ?? STAGING_STALL_MS;
-  const batch = options.batch ?? 2;
+  const batch = options.batch ?? 8;
   let next = 0;
   let waitingSince: number | null = null;
   let recheck = false;

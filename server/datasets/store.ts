@@ -239,10 +239,11 @@ export type CreateDatasetInput = {
   totalBytes?: number | null;
   onProgress?: (progress: UploadProgress) => void;
   /**
-   * Writes the original file's rows of dataset_files itself, in the upload's transaction (e.g. copied
-   * inside PostgreSQL from a staged upload) instead of from the bytes read, which are then not kept.
+   * The original file is in dataset_files already, under this id (a staged upload, written while it
+   * arrived): the dataset takes the id and adopts those chunks; the bytes read are not kept. The
+   * chunks' total size must equal the bytes read, or nothing is stored.
    */
-  storeOriginal?: (tx: postgres.TransactionSql, datasetId: string) => Promise<void>;
+  adoptFileOf?: string;
   /** Runs in the upload's transaction right before COMMIT (e.g. the audit entry); throwing rolls it all back. */
   beforeCommit?: (tx: postgres.TransactionSql, datasetId: string) => Promise<void>;
   /** Runs right after COMMIT, while the stored dataset is read back (e.g. starts removing staged bytes). */
@@ -298,7 +299,7 @@ const baseName = (filename: string) => {
 export async function createDataset(input: CreateDatasetInput): Promise<CreateDatasetResult> {
   const options = datasetOptionsSchema.parse(input.options ?? {});
   const { sql } = getDatabase();
-  const datasetId = randomUUID();
+  const datasetId = input.adoptFileOf ?? randomUUID();
   const idBytes = uuidBytes(datasetId);
   const fileChunks: Buffer[] = [];
   const encoder = new CopyBuffer();
@@ -306,7 +307,6 @@ export async function createDataset(input: CreateDatasetInput): Promise<CreateDa
   let copy: Writable | null = null;
   let columnCount = 0;
   let rowsEnded = false;
-  let originalCopy: Promise<void> | null = null;
   const progress: UploadProgress = {
     phase: "reading",
     bytesRead: 0,
@@ -318,7 +318,7 @@ export async function createDataset(input: CreateDatasetInput): Promise<CreateDa
 
   const hooks: PipelineHooks = {
     bytes: (chunk) => {
-      if (!input.storeOriginal) fileChunks.push(chunk);
+      if (!input.adoptFileOf) fileChunks.push(chunk);
     },
     progress: (bytesRead, rowsParsed) => {
       progress.bytesRead = bytesRead;
@@ -340,22 +340,16 @@ export async function createDataset(input: CreateDatasetInput): Promise<CreateDa
       for (const chunk of encoder.take()) await writeCopy(copy, chunk);
       progress.rowsStored = to;
     },
-    // With the original already in PostgreSQL (storeOriginal), its copy starts as soon as the last row
-    // is read: PostgreSQL copies it while this process profiles the columns and checks the roles. The
-    // dataset row goes in first (the file's pieces reference it); its role-dependent fields follow.
-    readingDone: input.storeOriginal
-      ? async (file) => {
-          const open = transaction as OpenTransaction | null;
-          const stream = copy as Writable | null;
-          if (!open || !stream) return;
-          await endRows(open, stream, file.rowCount);
-          await open.tx`insert into datasets ${open.tx(datasetRow(file, columnCount, null))}`;
-          originalCopy = input.storeOriginal!(open.tx, datasetId);
-          originalCopy.catch(() => {}); // awaited below, or the transaction is rolled back
-          // let the query reach the socket before the CPU-bound work that follows
-          await new Promise((resolve) => setImmediate(resolve));
-        }
-      : undefined,
+    // The rows' COPY ends as soon as the last row is read: PostgreSQL finishes it while this process
+    // profiles the columns and checks the roles.
+    readingDone: async (file) => {
+      const open = transaction as OpenTransaction | null;
+      const stream = copy as Writable | null;
+      if (!open || !stream) return;
+      await endRows(open, stream, file.rowCount);
+      // let the end of the COPY reach the socket before the CPU-bound work that follows
+      await new Promise((resolve) => setImmediate(resolve));
+    },
   };
 
   const endRows = async (open: OpenTransaction, stream: Writable, rowCount: number) => {
@@ -423,21 +417,18 @@ export async function createDataset(input: CreateDatasetInput): Promise<CreateDa
     if (!rowsEnded) await endRows(open, stream, file.rowCount);
     copy = null;
 
-    if (originalCopy) {
-      // the dataset row and the original are in already (readingDone): the fields the roles decide
-      await originalCopy;
-      const row = datasetRow(file, columns.length, roles);
-      await open.tx`
-        update datasets set ${open.tx(row, "status", "dropped_row_count", "roles_assigned_by", "roles_assigned_at", "column_count")}
-        where id = ${datasetId}`;
-    } else {
-      await open.tx`insert into datasets ${open.tx(datasetRow(file, columns.length, roles))}`;
-      if (input.storeOriginal) await input.storeOriginal(open.tx, datasetId);
-      else {
-        const files = await copyFrom(open.tx, "copy dataset_files (dataset_id, seq, bytes) from stdin (format binary)");
-        const pieces = [...encodeFileChunks(fileChunks, idBytes)];
-        await endCopy(open.tx, files, pieces);
+    await open.tx`insert into datasets ${open.tx(datasetRow(file, columns.length, roles))}`;
+    if (input.adoptFileOf) {
+      // length() of an uncompressed stored value reads its header only, not the bytes
+      const [adopted] = await open.tx<{ bytes: string }[]>`
+        select coalesce(sum(length(bytes)), 0)::text as bytes from dataset_files where dataset_id = ${datasetId}`;
+      if (Number(adopted.bytes) !== file.byteSize) {
+        throw new Error(`internal: the staged file holds ${adopted.bytes} bytes, ${file.byteSize} were read`);
       }
+    } else {
+      const files = await copyFrom(open.tx, "copy dataset_files (dataset_id, seq, bytes) from stdin (format binary)");
+      const pieces = [...encodeFileChunks(fileChunks, idBytes)];
+      await endCopy(open.tx, files, pieces);
     }
 
     await open.tx`
@@ -815,7 +806,7 @@ export async function assignDatasetRoles(
   return { ok: true, dataset, report: outcome.report };
 }
 
-/** Deletes a dataset with its file, columns and rows (the rows through the trigger of the migration). */
+/** Deletes a dataset with its columns, and its rows and file through the trigger on datasets (db/migrations). */
 export async function deleteDataset(params: { workspaceId: string; datasetId: string }): Promise<boolean> {
   if (!isUuid(params.datasetId) || !isUuid(params.workspaceId)) return false;
   const { sql } = getDatabase();

@@ -67,7 +67,8 @@ async function storedFor(filename: string) {
       (select count(*)::int from audit_log where action like 'dataset.%' and details::text like ${`%${filename}%`}) as audits,
       (select count(*)::int from dataset_uploads where original_filename = ${filename}) as uploads,
       (select count(*)::int from dataset_uploads where original_filename = ${filename} and state <> 'aborted') as "liveUploads",
-      (select count(*)::int from dataset_upload_chunks c join dataset_uploads u on u.id = c.upload_id where u.original_filename = ${filename}) as chunks`;
+      (select count(*)::int from dataset_files f join dataset_uploads u on u.id = f.dataset_id where u.original_filename = ${filename}
+         and not exists (select 1 from datasets d where d.id = f.dataset_id)) as chunks`;
   return row;
 }
 

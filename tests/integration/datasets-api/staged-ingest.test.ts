@@ -2,13 +2,24 @@
 // dataset.ingest job; the job (run here as the worker runs it, at the same time as the upload arrives)
 // parses, checks and stores the dataset, reporting progress. A bad file fails the job with row and
 // column and stores nothing; an aborted or stalled upload stores nothing either; staging is emptied.
+import { createHash } from "node:crypto";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { GET as getJob } from "@/app/api/jobs/[id]/route";
 import { GET as getDataset } from "@/app/api/datasets/[id]/route";
 import { POST as upload } from "@/app/api/datasets/route";
 import { getDatabase } from "@/db/client";
 import { ingestStagedUpload } from "@/server/datasets/ingest";
-import { beginStagedUpload, deleteStagedUpload, getStagedUpload, readStagedUpload, stageUploadBody, StagedUploadAborted } from "@/server/datasets/staging";
+import {
+  beginStagedUpload,
+  cleanupStaleUploads,
+  deleteStagedUpload,
+  FILE_CHUNK_BYTES,
+  getStagedUpload,
+  readStagedUpload,
+  stageUploadBody,
+  StagedUploadAborted,
+} from "@/server/datasets/staging";
+import { deleteDataset } from "@/server/datasets/store";
 import type { RoleAssignment } from "@/server/datasets/roles";
 import { getQueue } from "@/server/jobs/queue";
 import { apiRequest, makeTeam, routeContext, runIngestJob, streamingRequest, uploadFootprint } from "./support";
@@ -78,7 +89,7 @@ async function waitForJob(workspaceId: string, earlier: Set<string>): Promise<st
 }
 
 async function stagedChunks(): Promise<number> {
-  const [row] = await getDatabase().sql<{ n: number }[]>`select count(*)::int as n from dataset_upload_chunks`;
+  const [row] = await getDatabase().sql<{ n: number }[]>`select count(*)::int as n from dataset_files f where not exists (select 1 from datasets d where d.id = f.dataset_id)`;
   return row.n;
 }
 
@@ -125,6 +136,13 @@ describe("a large upload through the route and the dataset.ingest job", () => {
 
     const after = await uploadFootprint(team.workspace.id);
     expect(after).toMatchObject({ datasets: before.datasets + 1, rows: before.rows + 70_000, uploads: 0, chunks: 0, audit: before.audit + 1 });
+    // the staged bytes became the original file as they were written: 1 MiB chunks in order, byte for byte
+    const chunks = await getDatabase().sql<{ seq: number; bytes: Buffer }[]>`
+      select seq, bytes from dataset_files where dataset_id = ${datasetId} order by seq`;
+    expect(chunks.map((c) => c.seq)).toEqual(chunks.map((_, i) => i));
+    expect(chunks.slice(0, -1).every((c) => c.bytes.length === FILE_CHUNK_BYTES)).toBe(true);
+    expect(Buffer.concat(chunks.map((c) => c.bytes)).equals(file)).toBe(true);
+    expect(dataset.sha256).toBe(createHash("sha256").update(file).digest("hex"));
     const [audit] = await getDatabase().sql<{ details: Record<string, unknown> }[]>`
       select details from audit_log where object_type = 'dataset' and object_id = ${datasetId}`;
     expect(audit.details).toMatchObject({ via: "background", rows: 70_000 });
@@ -262,5 +280,57 @@ describe("staging", () => {
     }).rejects.toThrow("larger than the limit");
     expect(await stagedChunks()).toBe(0);
     await deleteStagedUpload(staged.id); // what its job would have done
+  });
+
+  it("sweeps chunks nobody owns (a database crash empties the unlogged uploads), never a dataset's file or an upload in progress", async () => {
+    const { sql } = getDatabase();
+    // an upload in progress: its row and its first chunks
+    const live = await beginStagedUpload({ workspaceId: team.workspace.id, userId: null, originalFilename: "live.csv" });
+    let release!: () => void;
+    const hanging = new Promise<void>((resolve) => (release = resolve));
+    const file = bigCsv(50_000);
+    const staging = stageUploadBody(
+      live.id,
+      (async function* () {
+        yield new Uint8Array(file.subarray(0, 4_500_000));
+        await hanging;
+      })(),
+      { maxBytes: 100 * 1024 * 1024 },
+    );
+    staging.catch(() => {});
+    await expect.poll(async () => (await getStagedUpload(live.id))?.chunkCount, { timeout: 10_000 }).toBe(4);
+    // chunks whose upload row is gone (what a crash leaves)
+    const orphan = crypto.randomUUID();
+    await sql`insert into dataset_files (dataset_id, seq, bytes) values (${orphan}, 0, ${Buffer.from("date,sales\n")}), (${orphan}, 1, ${Buffer.from("x")})`;
+    // a stored dataset's file
+    const [stored] = await sql<{ id: string; n: number }[]>`
+      select d.id, count(f.seq)::int as n from datasets d join dataset_files f on f.dataset_id = d.id
+      where d.workspace_id = ${team.workspace.id} group by d.id limit 1`;
+    expect(stored.n).toBeGreaterThan(0);
+
+    expect(await cleanupStaleUploads()).toBe(0); // no upload is stale
+    const count = async (id: string) => (await sql<{ n: number }[]>`select count(*)::int as n from dataset_files where dataset_id = ${id}`)[0].n;
+    expect(await count(orphan)).toBe(0);
+    expect(await count(live.id)).toBe(4);
+    expect(await count(stored.id)).toBe(stored.n);
+
+    release();
+    await staging; // ends normally: the upload is "received"; nobody ingests it here
+    await deleteStagedUpload(live.id);
+    expect(await count(live.id)).toBe(0);
+    expect(await stagedChunks()).toBe(0);
+  });
+
+  it("deletes a dataset's original file with the dataset (no foreign key does it)", async () => {
+    const { sql } = getDatabase();
+    const staged = await beginStagedUpload({ workspaceId: team.workspace.id, userId: team.members.analyst.id, originalFilename: "short-lived.csv", options: { roles } });
+    await stageUploadBody(staged.id, slowly(bigCsv(20_000)), { maxBytes: 100 * 1024 * 1024 });
+    const stored = await ingestStagedUpload(staged.id);
+    expect(stored.ok).toBe(true);
+    if (!stored.ok) return;
+    const files = async () => (await sql<{ n: number }[]>`select count(*)::int as n from dataset_files where dataset_id = ${stored.dataset.id}`)[0].n;
+    expect(await files()).toBe(2);
+    expect(await deleteDataset({ workspaceId: team.workspace.id, datasetId: stored.dataset.id })).toBe(true);
+    expect(await files()).toBe(0);
   });
 });

@@ -102,7 +102,8 @@ export async function uploadFootprint(workspaceId: string) {
       (select count(*)::int from dataset_files f join datasets d on d.id = f.dataset_id where d.workspace_id = ${workspaceId}) as files,
       (select count(*)::int from dataset_columns c join datasets d on d.id = c.dataset_id where d.workspace_id = ${workspaceId}) as columns,
       (select count(*)::int from dataset_uploads where workspace_id = ${workspaceId}) as uploads,
-      (select count(*)::int from dataset_upload_chunks) as chunks,
+      -- staged bytes no dataset adopted (anywhere: an upload's chunks are written before any dataset exists)
+      (select count(*)::int from dataset_files f where not exists (select 1 from datasets d where d.id = f.dataset_id)) as chunks,
       (select count(*)::int from audit_log where workspace_id = ${workspaceId} and object_type = 'dataset') as audit`;
   return row;
 }
