@@ -79,7 +79,7 @@ export type RoleCheck = {
 
 export type RoleCheckInput = {
   store: ColumnStore;
-  columns: Pick<ColumnProfile, "name" | "kind" | "numericCount" | "textCount">[];
+  columns: Pick<ColumnProfile, "name" | "kind" | "numericCount" | "textCount" | "min" | "max">[];
   dateOrder: DateOrder;
 };
 
@@ -195,6 +195,9 @@ export function checkRoles(
       continue;
     }
     usable.add(j);
+    // the column's profile already says when no cell can be a problem: a number in every row, and no
+    // negative one where spend is meant (the usual case, which then costs no pass over the rows)
+    if (profile.numericCount === n && (role !== "spend" || (profile.min ?? 0) >= 0)) continue;
     for (let i = 0; i < n; i++) {
       const x = values[i];
       if (x !== x) {
@@ -269,21 +272,26 @@ export function checkRoles(
         value: preview(shown),
       });
     }
-    // repeated periods: a sorted copy finds whether there are any; only then find which rows
+    // repeated periods: none when every period is later than the one before (the usual history, and
+    // no sort needed); otherwise a sorted copy finds whether there are any; only then find which rows
     let ascending = true;
+    let increasing = true;
     let previous = -Infinity;
     for (let i = 0; i < n; i++) {
       const key = keys[i];
       if (key !== key) continue;
       if (key < previous) ascending = false;
+      if (key <= previous) increasing = false;
       previous = key;
     }
-    const sorted = keys.slice().sort(); // NaN sorts last
     let repeated = false;
-    for (let i = 1; i < n && sorted[i] === sorted[i]; i++) {
-      if (sorted[i] === sorted[i - 1]) {
-        repeated = true;
-        break;
+    if (!increasing) {
+      const sorted = keys.slice().sort(); // NaN sorts last
+      for (let i = 1; i < n && sorted[i] === sorted[i]; i++) {
+        if (sorted[i] === sorted[i - 1]) {
+          repeated = true;
+          break;
+        }
       }
     }
     if (repeated) {
@@ -349,7 +357,11 @@ export function checkRoles(
     const values = store.values[j];
     let lo = Infinity;
     let hi = -Infinity;
-    for (let i = 0; i < n; i++) {
+    // with every row kept, the profile's range is the range (no pass over the rows)
+    if (droppedRows.length === 0) {
+      lo = columns[j].min ?? Infinity;
+      hi = columns[j].max ?? -Infinity;
+    } else for (let i = 0; i < n; i++) {
       if (incomplete && incomplete[i]) continue;
       const x = values[i];
       if (x === x) {
