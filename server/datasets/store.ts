@@ -307,6 +307,7 @@ export async function createDataset(input: CreateDatasetInput): Promise<CreateDa
   let copy: Writable | null = null;
   let columnCount = 0;
   let rowsEnded = false;
+  let rowsEnding: Promise<void> | null = null;
   const progress: UploadProgress = {
     phase: "reading",
     bytesRead: 0,
@@ -340,13 +341,14 @@ export async function createDataset(input: CreateDatasetInput): Promise<CreateDa
       for (const chunk of encoder.take()) await writeCopy(copy, chunk);
       progress.rowsStored = to;
     },
-    // The rows' COPY ends as soon as the last row is read: PostgreSQL finishes it while this process
-    // profiles the columns and checks the roles.
+    // The rows' COPY ends as soon as the last row is read, without waiting for it: PostgreSQL finishes
+    // it while this process profiles the columns and checks the roles (awaited before anything else).
     readingDone: async (file) => {
       const open = transaction as OpenTransaction | null;
       const stream = copy as Writable | null;
       if (!open || !stream) return;
-      await endRows(open, stream, file.rowCount);
+      rowsEnding = endRows(open, stream, file.rowCount);
+      rowsEnding.catch(() => {}); // awaited below, or before the rollback
       // let the end of the COPY reach the socket before the CPU-bound work that follows
       await new Promise((resolve) => setImmediate(resolve));
     },
@@ -392,6 +394,8 @@ export async function createDataset(input: CreateDatasetInput): Promise<CreateDa
     const stream = copy as Writable | null;
     transaction = null;
     copy = null;
+    // a COPY already ending is let finish: the connection then rolls back cleanly
+    if (rowsEnding) await rowsEnding.catch(() => {});
     if (stream && !stream.writableFinished && !stream.destroyed) stream.destroy(new Error("upload aborted"));
     if (open) await open.rollback();
   };
@@ -414,7 +418,8 @@ export async function createDataset(input: CreateDatasetInput): Promise<CreateDa
   }
 
   try {
-    if (!rowsEnded) await endRows(open, stream, file.rowCount);
+    if (rowsEnding) await rowsEnding;
+    else if (!rowsEnded) await endRows(open, stream, file.rowCount);
     copy = null;
 
     await open.tx`insert into datasets ${open.tx(datasetRow(file, columns.length, roles))}`;
