@@ -282,6 +282,23 @@ describe("staging", () => {
     await deleteStagedUpload(staged.id); // what its job would have done
   });
 
+  it("a reader waiting for chunks goes on when they are committed (a nudge), not at its next poll", async () => {
+    const staged = await beginStagedUpload({ workspaceId: team.workspace.id, userId: null, originalFilename: "nudged.csv" });
+    const file = bigCsv(30_000);
+    let read = 0;
+    // polls 30 s apart: only the web server's nudges can move this reader along in time
+    const reading = (async () => {
+      for await (const piece of readStagedUpload(staged.id, { pollMs: 30_000, stallMs: 120_000 })) read += piece.length;
+    })();
+    await new Promise((resolve) => setTimeout(resolve, 200)); // the reader is waiting for the first chunk
+    const started = Date.now();
+    await stageUploadBody(staged.id, slowly(file), { maxBytes: 100 * 1024 * 1024 });
+    await Promise.race([reading, new Promise((_, reject) => setTimeout(() => reject(new Error("the reader waited for its poll")), 15_000))]);
+    expect(read).toBe(file.length);
+    expect(Date.now() - started).toBeLessThan(30_000);
+    await deleteStagedUpload(staged.id);
+  });
+
   it("sweeps chunks nobody owns (a database crash empties the unlogged uploads), never a dataset's file or an upload in progress", async () => {
     const { sql } = getDatabase();
     // an upload in progress: its row and its first chunks
