@@ -88,6 +88,19 @@ async function waitForJob(workspaceId: string, earlier: Set<string>): Promise<st
   throw new Error("the route queued no job");
 }
 
+/** Uploads `file` through the route (roles given, sent slowly) and runs the job it queued, as the worker would. */
+async function uploadThroughJob(file: Buffer, filename: string) {
+  const earlier = await ingestJobsSoFar(team.workspace.id);
+  const query = `filename=${filename}&options=${encodeURIComponent(JSON.stringify({ roles }))}`;
+  const responding = upload(
+    streamingRequest(team.tokens.analyst, slowly(file), { "content-type": "text/csv", "content-length": String(file.length) }, query),
+    routeContext(),
+  );
+  const jobId = await waitForJob(team.workspace.id, earlier);
+  const outcome = await runIngestJob(jobId);
+  return { jobId, outcome, response: await responding };
+}
+
 async function stagedChunks(): Promise<number> {
   const [row] = await getDatabase().sql<{ n: number }[]>`select count(*)::int as n from dataset_files f where not exists (select 1 from datasets d where d.id = f.dataset_id)`;
   return row.n;
@@ -155,15 +168,8 @@ describe("a large upload through the route and the dataset.ingest job", () => {
       return line;
     });
     const before = await uploadFootprint(team.workspace.id);
-    const earlier = await ingestJobsSoFar(team.workspace.id);
-    const query = `filename=bad.csv&options=${encodeURIComponent(JSON.stringify({ roles }))}`;
-    const responding = upload(
-      streamingRequest(team.tokens.analyst, slowly(file), { "content-type": "text/csv", "content-length": String(file.length) }, query),
-      routeContext(),
-    );
-    const jobId = await waitForJob(team.workspace.id, earlier);
-    const outcome = await runIngestJob(jobId);
-    expect((await responding).status).toBe(202);
+    const { jobId, outcome, response } = await uploadThroughJob(file, "bad.csv");
+    expect(response.status).toBe(202);
     expect(outcome.ok).toBe(false);
     if (outcome.ok) return;
     expect(outcome.message).toBe("The file was not stored: 2 problems (non-numeric cell, negative spend).");
@@ -177,18 +183,11 @@ describe("a large upload through the route and the dataset.ingest job", () => {
     expect(await uploadFootprint(team.workspace.id)).toEqual(before);
   });
 
-  it("stores nothing when only the role check finds a problem (after every row was read and the original's copy began)", async () => {
+  it("stores nothing when only the role check finds a problem (after every row was read and the rows' COPY was ending)", async () => {
     const file = bigCsv(60_000, (row, line) => (row === 59_990 ? line.replace(/^([^,]*,[^,]*,[^,]*,)[^,]*/, "$1-7.5") : line));
     const before = await uploadFootprint(team.workspace.id);
-    const earlier = await ingestJobsSoFar(team.workspace.id);
-    const query = `filename=late.csv&options=${encodeURIComponent(JSON.stringify({ roles }))}`;
-    const responding = upload(
-      streamingRequest(team.tokens.analyst, slowly(file), { "content-type": "text/csv", "content-length": String(file.length) }, query),
-      routeContext(),
-    );
-    const jobId = await waitForJob(team.workspace.id, earlier);
-    const outcome = await runIngestJob(jobId);
-    expect((await responding).status).toBe(202);
+    const { outcome, response } = await uploadThroughJob(file, "late.csv");
+    expect(response.status).toBe(202);
     expect(outcome.ok).toBe(false);
     if (outcome.ok) return;
     expect(outcome.details).toEqual([expect.objectContaining({ kind: "negative-spend", row: 59_990, column: "radio" })]);
