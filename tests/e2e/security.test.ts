@@ -128,13 +128,7 @@ describe("headers", () => {
 
   test("in the browser, the signed-in pages run under the CSP without a violation and hydrate", async () => {
     const tab = await openPage(browser);
-    const violations: string[] = [];
-    await tab.context.exposeBinding("reportViolation", (_source, text: string) => violations.push(text));
-    await tab.context.addInitScript(() => {
-      document.addEventListener("securitypolicyviolation", (event) => {
-        (window as unknown as { reportViolation: (text: string) => void }).reportViolation(`${event.violatedDirective} ${event.blockedURI} on ${location.pathname}`);
-      });
-    });
+    const violations = await recordViolations(tab);
     try {
       await signInAs(tab.page, "planner");
       for (const pagePath of ["/", "/scenarios", "/fits", "/settings/tokens"]) {
@@ -166,6 +160,18 @@ describe("headers", () => {
   });
 });
 
+/** Every Content-Security-Policy violation the tab's pages report, as "directive blocked-URI on path". */
+async function recordViolations(tab: Awaited<ReturnType<typeof openPage>>): Promise<string[]> {
+  const violations: string[] = [];
+  await tab.context.exposeBinding("reportViolation", (_source, text: string) => violations.push(text));
+  await tab.context.addInitScript(() => {
+    document.addEventListener("securitypolicyviolation", (event) => {
+      (window as unknown as { reportViolation: (text: string) => void }).reportViolation(`${event.violatedDirective} ${event.blockedURI} on ${location.pathname}`);
+    });
+  });
+  return violations;
+}
+
 describe("the 404 page", () => {
   test("is rendered per request: its scripts carry the nonce, and in the browser it runs without a violation and hydrates", async () => {
     const response = await get("/no-such-page-here");
@@ -177,13 +183,7 @@ describe("the 404 page", () => {
     for (const tag of scripts) expect(tag, "every script tag of the 404 page carries the nonce").toContain(`nonce="${nonce}"`);
 
     const tab = await openPage(browser);
-    const violations: string[] = [];
-    await tab.context.exposeBinding("reportViolation", (_source, text: string) => violations.push(text));
-    await tab.context.addInitScript(() => {
-      document.addEventListener("securitypolicyviolation", (event) => {
-        (window as unknown as { reportViolation: (text: string) => void }).reportViolation(`${event.violatedDirective} ${event.blockedURI} on ${location.pathname}`);
-      });
-    });
+    const violations = await recordViolations(tab);
     try {
       const page = await tab.page.goto("/no-such-page-here/either");
       expect(page?.status()).toBe(404);
