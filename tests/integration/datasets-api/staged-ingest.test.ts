@@ -101,6 +101,22 @@ async function uploadThroughJob(file: Buffer, filename: string) {
   return { jobId, outcome, response: await responding };
 }
 
+/** Stages `sent` for an upload, then holds the body open until `release()` (a client or web server gone quiet). */
+function stageThenHang(uploadId: string, sent: Buffer) {
+  let release!: () => void;
+  const hanging = new Promise<void>((resolve) => (release = resolve));
+  const staging = stageUploadBody(
+    uploadId,
+    (async function* () {
+      yield new Uint8Array(sent);
+      await hanging;
+    })(),
+    { maxBytes: 100 * 1024 * 1024 },
+  );
+  staging.catch(() => {});
+  return { staging, release };
+}
+
 async function stagedChunks(): Promise<number> {
   const [row] = await getDatabase().sql<{ n: number }[]>`select count(*)::int as n from dataset_files f where not exists (select 1 from datasets d where d.id = f.dataset_id)`;
   return row.n;
@@ -250,19 +266,7 @@ describe("staging", () => {
     const before = await uploadFootprint(team.workspace.id);
     const staged = await beginStagedUpload({ workspaceId: team.workspace.id, userId: team.members.analyst.id, originalFilename: "stalled.csv", options: { roles } });
     // a web server that wrote two chunks and died: the body never ends
-    let release!: () => void;
-    const hanging = new Promise<void>((resolve) => (release = resolve));
-    const file = bigCsv(30_000);
-    const staging = stageUploadBody(
-      staged.id,
-      (async function* () {
-        yield new Uint8Array(file.subarray(0, 1_100_000));
-        yield new Uint8Array(file.subarray(1_100_000, 2_200_000));
-        await hanging;
-      })(),
-      { maxBytes: 100 * 1024 * 1024 },
-    );
-    staging.catch(() => {});
+    const { staging, release } = stageThenHang(staged.id, bigCsv(30_000).subarray(0, 2_200_000));
     await expect(ingestStagedUpload(staged.id, { stallMs: 300, pollMs: 20 })).rejects.toBeInstanceOf(StagedUploadAborted);
     release();
     await expect(staging).rejects.toBeInstanceOf(StagedUploadAborted);
@@ -302,18 +306,7 @@ describe("staging", () => {
     const { sql } = getDatabase();
     // an upload in progress: its row and its first chunks
     const live = await beginStagedUpload({ workspaceId: team.workspace.id, userId: null, originalFilename: "live.csv" });
-    let release!: () => void;
-    const hanging = new Promise<void>((resolve) => (release = resolve));
-    const file = bigCsv(50_000);
-    const staging = stageUploadBody(
-      live.id,
-      (async function* () {
-        yield new Uint8Array(file.subarray(0, 4_500_000));
-        await hanging;
-      })(),
-      { maxBytes: 100 * 1024 * 1024 },
-    );
-    staging.catch(() => {});
+    const { staging, release } = stageThenHang(live.id, bigCsv(50_000).subarray(0, 4_500_000));
     await expect.poll(async () => (await getStagedUpload(live.id))?.chunkCount, { timeout: 10_000 }).toBe(4);
     // chunks whose upload row is gone (what a crash leaves)
     const orphan = crypto.randomUUID();
