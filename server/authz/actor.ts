@@ -7,6 +7,7 @@ import { cached } from "@/server/authz/actor-cache";
 import { permissionsByRole, permissionsOf, roleLabels, type Permission } from "@/server/authz/roles";
 import { findApiTokenIdentityByHash, hashApiToken, looksLikeApiToken, touchApiToken } from "@/server/data/api-tokens";
 import { listMembershipsByUserId } from "@/server/data/members";
+import { actorFromMembership } from "./member-actor";
 import { getUserById } from "@/server/data/users";
 
 /** The cookie naming the current workspace (its slug) for signed-in browsers. */
@@ -32,6 +33,8 @@ export async function setWorkspaceCookie(slug: string): Promise<void> {
 }
 
 /** Who is acting, in which workspace, with which roles. Every entry point gets one from requireActor. */
+export { assertInWorkspace } from "./scope";
+
 export type Actor = {
   userId: string;
   email: string;
@@ -43,7 +46,8 @@ export type Actor = {
   locale: string;
   roles: Role[];
   permissions: ReadonlySet<Permission>;
-  via: "session" | "token";
+  /** "script": the seed acting as a demo member, never a request. */
+  via: "session" | "token" | "script";
   /** The API token's id when via is "token". */
   tokenId?: string;
 };
@@ -111,19 +115,7 @@ async function actorFromSession(request?: Request): Promise<Actor> {
   }
   const slug = await currentWorkspaceSlug(request);
   const membership = memberships.find((m) => m.workspaceSlug === slug) ?? memberships[0];
-  return {
-    userId,
-    email: membership.userEmail,
-    name: membership.userName,
-    workspaceId: membership.workspaceId,
-    workspaceSlug: membership.workspaceSlug,
-    workspaceName: membership.workspaceName,
-    currency: membership.currency,
-    locale: membership.locale,
-    roles: membership.roles,
-    permissions: permissionsOf(membership.roles),
-    via: "session",
-  };
+  return actorFromMembership(userId, membership, "session");
 }
 
 /**
@@ -168,23 +160,6 @@ export function requirePermission(actor: Actor, permission: Permission): void {
     "forbidden",
     `This needs the ${needed.join(" or ")} role${needed.length > 1 ? "s" : ""}; your roles in ${actor.workspaceName} are: ${held}.`,
   );
-}
-
-/**
- * Objects of another workspace do not exist for this actor: a missing object and a foreign one both
- * give 404, so ids of other workspaces cannot be probed. Pass the loaded object (or its workspaceId).
- *
- * @example const fit = await getFitById(id); assertInWorkspace(actor, fit, "fit"); // fit is non-null after this
- */
-export function assertInWorkspace<T extends { workspaceId: string } | string>(
-  actor: Pick<Actor, "workspaceId">,
-  object: T | null | undefined,
-  what = "item",
-): asserts object is T {
-  const workspaceId = typeof object === "string" ? object : object?.workspaceId;
-  if (!workspaceId || workspaceId !== actor.workspaceId) {
-    throw new AppError(`not_found:${what}`, `No such ${what} in this workspace.`);
-  }
 }
 
 /** The workspaces a signed-in user may switch between (for the app shell). */

@@ -1,5 +1,6 @@
 import "server-only";
-import { type Actor, assertInWorkspace } from "@/server/authz";
+import type { Actor } from "@/server/authz/actor";
+import { assertInWorkspace } from "@/server/authz/scope";
 import { AppError } from "@/server/errors";
 import { getFitById } from "@/server/fits/store";
 import { type CachedFit, getCachedFit } from "@/server/predict/fit-cache";

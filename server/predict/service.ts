@@ -1,5 +1,6 @@
 import "server-only";
-import { type Actor, assertInWorkspace } from "@/server/authz";
+import type { Actor } from "@/server/authz/actor";
+import { assertInWorkspace } from "@/server/authz/scope";
 import { AppError } from "@/server/errors";
 import type { MoneyLocale } from "@/server/planning/allocation";
 import { type CachedFit, getCachedFit } from "./fit-cache";

@@ -1,6 +1,7 @@
 import "server-only";
 import type { ScenarioBaseline } from "@/db/schema/scenarios";
-import { type Actor, assertInWorkspace } from "@/server/authz";
+import type { Actor } from "@/server/authz/actor";
+import { assertInWorkspace } from "@/server/authz/scope";
 import { AppError, type ErrorDetail } from "@/server/errors";
 import { amountToCents } from "@/server/planning/allocation";
 import { periodsWord } from "@/server/predict/plan-shape";

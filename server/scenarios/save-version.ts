@@ -2,7 +2,8 @@ import "server-only";
 import { eq, sql } from "drizzle-orm";
 import { db } from "@/db/client";
 import { type ChannelSettings, type ScenarioMode, scenarioVersions } from "@/db/schema/scenarios";
-import { type Actor, assertInWorkspace } from "@/server/authz";
+import type { Actor } from "@/server/authz/actor";
+import { assertInWorkspace } from "@/server/authz/scope";
 import { recordAudit } from "@/server/data/audit";
 import { AppError, type ErrorDetail, postgresCode } from "@/server/errors";
 import {
