@@ -187,7 +187,8 @@ export function ComparisonScreen({ comparison, money, comments, members, finance
           caption={`Predicted ${outcome.label.toLowerCase()} over each horizon: pale band ${levelText(level)} prediction interval, darker band ${levelText(level)} confidence interval, tick the expected total.`}
           rows={columns.map((column) => ({
             key: String(column.position),
-            label: title(column),
+            label: column.scenarioName,
+            tag: `v${column.version}`,
             point: column.outcome.mean,
             confidence: column.outcome.confidence,
             prediction: column.outcome.prediction,
@@ -205,8 +206,8 @@ export function ComparisonScreen({ comparison, money, comments, members, finance
             .filter((column) => column.position !== comparison.baselinePosition)
             .map((column) =>
               column.difference.kind === "joint"
-                ? { key: String(column.position), label: title(column), point: column.difference.mean, confidence: column.difference.confidence, prediction: null }
-                : { key: String(column.position), label: title(column), point: null, note: "No joint interval: the fits differ, so each outcome stands alone." },
+                ? { key: String(column.position), label: column.scenarioName, tag: `v${column.version}`, point: column.difference.mean, confidence: column.difference.confidence, prediction: null }
+                : { key: String(column.position), label: column.scenarioName, tag: `v${column.version}`, point: null, note: "No joint interval: the fits differ, so each outcome stands alone." },
             )}
         />
       </section>

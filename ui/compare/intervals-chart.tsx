@@ -11,6 +11,8 @@ import { compactOutcomeText, outcomeText, signedOutcomeText } from "./format";
 export type ChartRow = {
   key: string;
   label: string;
+  /** Short text after the label that is never cut off (a version number): long labels are truncated before it. */
+  tag?: string;
   /** Null when there is nothing to draw (no joint interval): `note` says why. */
   point: number | null;
   confidence?: [number, number] | null;
@@ -18,6 +20,8 @@ export type ChartRow = {
   tone?: "normal" | "warning";
   note?: string;
 };
+
+const fullLabel = (row: ChartRow) => (row.tag ? `${row.label} ${row.tag}` : row.label);
 
 function useWidth(initial = 520) {
   const box = useRef<HTMLDivElement>(null);
@@ -71,8 +75,9 @@ export function IntervalsChart({
       <div className="space-y-1">
         {rows.map((row) => (
           <div key={row.key} className="flex items-center" data-testid={testId ? `${testId}-row` : undefined}>
-            <div className="shrink-0 truncate pr-3 text-sm text-slate-800" style={{ width: labelWidth }} title={row.label}>
-              {row.label}
+            <div className="flex shrink-0 gap-1 pr-3 text-sm text-slate-800" style={{ width: labelWidth }} title={fullLabel(row)}>
+              <span className="truncate">{row.label}</span>
+              {row.tag ? <span className="shrink-0">{row.tag}</span> : null}
             </div>
             {row.point === null ? (
               <p className="text-xs text-slate-600" style={{ width: plotWidth }}>
@@ -88,7 +93,7 @@ export function IntervalsChart({
                 width={plotWidth}
                 height={28}
                 tone={row.tone}
-                label={`${row.label}: ${text(row.point)}${row.confidence ? `, confidence interval ${text(row.confidence[0])} to ${text(row.confidence[1])}` : ""}${
+                label={`${fullLabel(row)}: ${text(row.point)}${row.confidence ? `, confidence interval ${text(row.confidence[0])} to ${text(row.confidence[1])}` : ""}${
                   row.prediction ? `, prediction interval ${text(row.prediction[0])} to ${text(row.prediction[1])}` : ""
                 }`}
               />
