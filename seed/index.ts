@@ -2,15 +2,16 @@
 // after the migrations; by hand: `npm run seed` (DATABASE_URL must point at a migrated database).
 import { getDatabase } from "@/db/client";
 import { seedDemoFit } from "./demo-fit";
+import { seedDemoScenarios } from "./demo-scenarios";
 import { seedUsers } from "./users";
 
 type Step = { name: string; run: (db: ReturnType<typeof getDatabase>["db"]) => Promise<unknown> };
 
-// One entry per area, in dependency order; later areas (the demo spend history, an approved demo
-// fit, scenarios) add their step below the users.
+// One entry per area, in dependency order.
 const steps: Step[] = [
   { name: "workspaces, demo users and roles", run: seedUsers },
   { name: "demo spend history, approved and draft demo fits", run: seedDemoFit },
+  { name: "demo scenarios, a comparison and a finance comment", run: seedDemoScenarios },
 ];
 
 async function main() {

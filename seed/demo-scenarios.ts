@@ -1,0 +1,133 @@
+import { and, eq } from "drizzle-orm";
+import type { Database } from "@/db/client";
+import { comparisons, fits, scenarios, users, workspaces } from "@/db/schema";
+import { actorForScript } from "@/server/authz/member-actor";
+import { postComment } from "@/server/comments/store";
+import { createComparison } from "@/server/comparisons/store";
+import { startScenario } from "@/server/scenarios/create";
+import { saveScenarioVersion, type SaveVersionInput } from "@/server/scenarios/save-version";
+import { getScenarioById } from "@/server/scenarios/store";
+import { demoAccountFor } from "./demo-accounts";
+import { demoApprovedFitName } from "./demo-fit";
+
+type Db = Database["db"];
+
+export const demoSpringScenarioName = "Spring quarter: more search, less display";
+export const demoGrowthScenarioName = "Spring quarter: up to 10% more budget";
+export const demoComparisonName = "Spring quarter options";
+
+/** Amounts per horizon with whole cents, as the API takes them. */
+const cents = (amount: number) => Math.round(amount * 100) / 100;
+
+async function userIdByEmail(db: Db, email: string): Promise<string> {
+  const [row] = await db.select({ id: users.id }).from(users).where(eq(users.email, email));
+  if (!row) throw new Error(`seed: demo user ${email} is missing (run the users step first)`);
+  return row.id;
+}
+
+/** The planner's scenario of this name on the fit, started (from the history's last 13 weeks) if missing. */
+async function ensureScenario(db: Db, input: { workspaceId: string; fitId: string; ownerId: string; name: string; start: () => Promise<string> }) {
+  const [existing] = await db
+    .select({ id: scenarios.id })
+    .from(scenarios)
+    .where(and(eq(scenarios.workspaceId, input.workspaceId), eq(scenarios.fitId, input.fitId), eq(scenarios.ownerId, input.ownerId), eq(scenarios.name, input.name)));
+  const id = existing?.id ?? (await input.start());
+  const scenario = await getScenarioById(id);
+  if (!scenario) throw new Error(`seed: scenario "${input.name}" vanished`);
+  return scenario;
+}
+
+/**
+ * Two scenarios on the approved demo fit, saved by the planner through the same functions the API
+ * uses (so every prediction is the server's): a fixed-total shift of €40,000 from display to search
+ * (version 1 is last quarter's split, version 2 the shift, warned as a combination never seen: display
+ * falls while online video stays), and a growing total up to 10% more, with the extra money in podcast
+ * and e-mail (warned: e-mail above its observed range). A saved comparison of the three versions and a finance
+ * comment on the shift give the finance screens something to show. Idempotent: finds scenarios and the
+ * comparison by name and adds only the versions and objects that are missing.
+ */
+export async function seedDemoScenarios(db: Db): Promise<void> {
+  const [workspace] = await db.select({ id: workspaces.id }).from(workspaces).where(eq(workspaces.slug, "larkspur"));
+  if (!workspace) throw new Error("seed: the larkspur workspace is missing (run the users step first)");
+  const [fit] = await db
+    .select({ id: fits.id })
+    .from(fits)
+    .where(and(eq(fits.workspaceId, workspace.id), eq(fits.name, demoApprovedFitName), eq(fits.status, "approved")));
+  if (!fit) {
+    console.log("demo scenarios: skipped (the approved demo fit is not there, e.g. it was retired)");
+    return;
+  }
+  const planner = await actorForScript(await userIdByEmail(db, demoAccountFor("planner").email), "larkspur");
+  const finance = await actorForScript(await userIdByEmail(db, demoAccountFor("finance").email), "larkspur");
+
+  const spring = await ensureScenario(db, {
+    workspaceId: workspace.id,
+    fitId: fit.id,
+    ownerId: planner.userId,
+    name: demoSpringScenarioName,
+    start: async () => (await startScenario(planner, { fitId: fit.id, name: demoSpringScenarioName })).id,
+  });
+  const lastQuarter = spring.baseline.allocation;
+  const shift = Math.min(40_000, Math.floor(lastQuarter.display_eur / 2));
+  const springVersions: Omit<SaveVersionInput, "baseVersion">[] = [
+    { mode: "fixed", allocation: lastQuarter, total: spring.baseline.total, note: "Last quarter's split, kept as the reference." },
+    {
+      mode: "fixed",
+      allocation: { ...lastQuarter, search_eur: cents(lastQuarter.search_eur + shift), display_eur: cents(lastQuarter.display_eur - shift) },
+      total: spring.baseline.total,
+      note: `€${shift.toLocaleString("en")} from display to search: search's association with sales is the clearest; display's is uncertain (it moves with online video).`,
+    },
+  ];
+  for (const [index, version] of springVersions.entries()) {
+    if (spring.latestVersion !== null && spring.latestVersion > index) continue;
+    await saveScenarioVersion(planner, spring.id, { ...version, baseVersion: index, horizon: spring.baseline.horizon, controls: spring.baseline.controls });
+  }
+
+  const growth = await ensureScenario(db, {
+    workspaceId: workspace.id,
+    fitId: fit.id,
+    ownerId: planner.userId,
+    name: demoGrowthScenarioName,
+    start: async () => (await startScenario(planner, { fitId: fit.id, name: demoGrowthScenarioName })).id,
+  });
+  if (growth.latestVersion === null) {
+    const base = growth.baseline.allocation;
+    const ceiling = cents(growth.baseline.total * 1.1);
+    const extra = Math.floor((ceiling - growth.baseline.total) * 0.9);
+    const allocation = { ...base, podcast_eur: cents(base.podcast_eur + Math.round(extra * 0.6)), email_eur: cents(base.email_eur + (extra - Math.round(extra * 0.6))) };
+    const total = cents(Object.values(allocation).reduce((sum, amount) => sum + amount, 0));
+    await saveScenarioVersion(planner, growth.id, {
+      baseVersion: 0,
+      mode: "growing",
+      allocation,
+      total,
+      ceiling,
+      horizon: growth.baseline.horizon,
+      controls: growth.baseline.controls,
+      note: "Most of the headroom into podcast and e-mail. E-mail goes past the most it has had in a quarter: read its warning before trusting that part.",
+    });
+  }
+
+  const [existingComparison] = await db
+    .select({ id: comparisons.id })
+    .from(comparisons)
+    .where(and(eq(comparisons.workspaceId, workspace.id), eq(comparisons.name, demoComparisonName)));
+  if (!existingComparison) {
+    const comparisonId = await createComparison(planner, {
+      name: demoComparisonName,
+      versions: [
+        { scenarioId: spring.id, version: 1 },
+        { scenarioId: spring.id, version: 2 },
+        { scenarioId: growth.id, version: 1 },
+      ],
+      baseline: 0,
+    });
+    await postComment(finance, {
+      scenarioId: spring.id,
+      version: 2,
+      comparisonId,
+      body: "Search at this level is near the top of what we have spent in a quarter. Can we run the shift in two regions for six weeks before committing the whole budget?",
+    });
+  }
+  console.log(`demo scenarios: "${demoSpringScenarioName}" ${spring.id}, "${demoGrowthScenarioName}" ${growth.id}`);
+}
