@@ -51,11 +51,11 @@ export default async function ScenariosPage({ searchParams }: { searchParams: Pr
           <table className="num w-full text-sm" data-testid="scenario-list">
             <thead>
               <tr className="text-left text-xs text-slate-500">
-                <th className="py-1 font-medium">Scenario</th>
-                <th className="py-1 font-medium">Fit</th>
-                <th className="py-1 font-medium">Owner</th>
+                <th className="py-1 pr-4 font-medium">Scenario</th>
+                <th className="py-1 pr-4 font-medium">Fit</th>
+                <th className="py-1 pr-4 font-medium">Owner</th>
                 <th className="py-1 text-right font-medium">Latest version</th>
-                <th className="py-1 pl-4 font-medium">Finance sign-off</th>
+                <th className="py-1 pr-4 pl-4 font-medium">Finance sign-off</th>
                 <th className="py-1 text-right font-medium">Last saved (UTC)</th>
               </tr>
             </thead>
@@ -64,18 +64,18 @@ export default async function ScenariosPage({ searchParams }: { searchParams: Pr
                 const signoff = signoffs.get(scenario.id);
                 return (
                   <tr key={scenario.id} className="border-t border-slate-100" data-testid="scenario-row" data-scenario={scenario.id}>
-                    <td className="py-2">
+                    <td className="py-2 pr-4">
                       <Link href={`/scenarios/${scenario.id}`} className="font-medium text-shallows hover:underline">
                         {scenario.name}
                       </Link>
                     </td>
-                    <td className="py-2">
+                    <td className="py-2 pr-4">
                       {scenario.fitName}
                       {scenario.fitStatus !== "approved" ? <span className="ml-1 text-xs text-[#9f3f2c]">({scenario.fitStatus})</span> : null}
                     </td>
-                    <td className="py-2">{scenario.ownerName ?? "—"}</td>
-                    <td className="py-2 text-right">{scenario.latestVersion === null ? "none saved" : `v${scenario.latestVersion}`}</td>
-                    <td className="py-2 pl-4">{signoff ? <SignoffSummary summary={signoff} /> : "—"}</td>
+                    <td className="py-2 pr-4 whitespace-nowrap">{scenario.ownerName ?? "—"}</td>
+                    <td className="py-2 text-right whitespace-nowrap">{scenario.latestVersion === null ? "none saved" : `v${scenario.latestVersion}`}</td>
+                    <td className="py-2 pr-4 pl-4">{signoff ? <SignoffSummary summary={signoff} /> : "—"}</td>
                     <td className="py-2 text-right">{scenario.latestSavedAt ? when.format(new Date(scenario.latestSavedAt)) : "—"}</td>
                   </tr>
                 );
