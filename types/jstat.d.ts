@@ -23,6 +23,12 @@ declare module "jstat" {
     chisquare: Chisquare;
     ibeta(x: number, a: number, b: number): number;
     ibetainv(p: number, a: number, b: number): number;
+    /** Lower regularised incomplete gamma P(a, x). */
+    lowRegGamma(a: number, x: number): number;
+    /** Moment skewness m₃/m₂^1.5 (moments divided by n). */
+    skewness(values: ArrayLike<number>): number;
+    /** Excess moment kurtosis m₄/m₂² − 3 (moments divided by n). */
+    kurtosis(values: ArrayLike<number>): number;
   };
   const _default: { jStat: typeof jStat } & typeof jStat;
   export default _default;

@@ -19,6 +19,7 @@ import {
   studentizedResiduals,
 } from "./observation-diagnostics";
 import type { PredictionModel } from "./prediction-model";
+import { type ResidualTests, createHeteroskedasticityAccumulator, jarqueBera } from "./residual-tests";
 import { type RowBlock, passOverRows } from "./row-blocks";
 import {
   type MeatAccumulator,
@@ -70,6 +71,8 @@ export interface LeastSquaresFit extends GoodnessOfFit {
   leverages: Float64Array;
   maxLeverage: number;
   durbinWatson: number;
+  /** Breusch–Pagan (Koenker) for unequal error variance and Jarque–Bera for non-normal errors. */
+  residualTests: ResidualTests;
   /** ŷ = y − r (computed on first access). */
   readonly fittedValues: Float64Array;
   /** rᵢ / (s √(1 − hᵢ)) (computed on first access). */
@@ -94,7 +97,8 @@ export interface LeastSquaresFit extends GoodnessOfFit {
  * fitLeastSquares(design).coefficients[1].estimate // => 0.8
  * @throws see `solveLeastSquares` (n ≤ p, non-finite values, constant outcome), and for an
  *   invalid covariance choice or confidence level
- * Cost: the solve, plus n·rank² flops for leverages (n·rank²(lag + 1) more for Newey–West);
+ * Cost: the solve, plus n·rank² flops for leverages (n·rank²(lag + 1) more for Newey–West) and
+ *   2n·rank for the Breusch–Pagan test;
  *   memory 2n doubles (residuals, leverages) plus n per diagnostic array read.
  */
 export function fitLeastSquares(design: Design, options: FitOptions = {}): LeastSquaresFit {
@@ -129,7 +133,9 @@ function completeFit(
   let accumulator: MeatAccumulator | null = null;
   if (covarianceChoice.type === "hc3") accumulator = createHc3Accumulator(rank);
   if (covarianceChoice.type === "newey-west") accumulator = createNeweyWestAccumulator(rank, covarianceChoice.lag ?? 0);
-  const visitors = accumulator === null ? [] : [(block: RowBlock) => accumulator.visit(block)];
+  const heteroskedasticity = createHeteroskedasticityAccumulator(rank);
+  const visitors = [(block: RowBlock) => heteroskedasticity.visit(block)];
+  if (accumulator !== null) visitors.push((block: RowBlock) => accumulator.visit(block));
   const { residuals, leverages } = passOverRows(solution, visitors);
 
   let residualSumOfSquares = solution.residualSumOfSquares;
@@ -231,6 +237,7 @@ function completeFit(
     leverages,
     maxLeverage,
     durbinWatson: durbinWatson(residuals),
+    residualTests: { heteroskedasticity: heteroskedasticity.finish(residuals, design.hasIntercept), normality: jarqueBera(residuals) },
     get fittedValues() {
       fitted ??= fittedValues(design.outcome, residuals);
       return fitted;

@@ -25,6 +25,7 @@ export type { CoefficientSummary } from "./coefficient-inference";
 export type { Collinearity } from "./collinearity";
 export { type CovarianceChoice, type CovarianceType, defaultNeweyWestLag } from "./covariance-choice";
 export type { GoodnessOfFit } from "./goodness-of-fit";
+export { type HeteroskedasticityTest, type NormalityTest, type ResidualTests, chiSquareUpperTail, jarqueBera } from "./residual-tests";
 
 // Prediction
 export {
