@@ -204,6 +204,22 @@ const fits: Section = {
         fTestKind: { type: "string", enum: ["anova", "wald"] },
         fDf: { type: "array", items: { type: "integer" }, minItems: 2, maxItems: 2 },
         durbinWatson: nullableNumber,
+        residualTests: {
+          type: "object",
+          description: "Tests on the residuals (absent from fits built before they were added).",
+          properties: {
+            heteroskedasticity: {
+              type: ["object", "null"],
+              description: "Breusch–Pagan, Koenker's studentized form: n·R² of r² on the regressors, χ² with df degrees of freedom. Null without an intercept.",
+              properties: { statistic: { type: "number" }, df: { type: "integer" }, pValue: { type: "number" } },
+            },
+            normality: {
+              type: ["object", "null"],
+              description: "Jarque–Bera from the residuals' skewness and kurtosis (3 for normal errors), χ² with 2 degrees of freedom.",
+              properties: { statistic: { type: "number" }, pValue: { type: "number" }, skewness: { type: "number" }, kurtosis: { type: "number" } },
+            },
+          },
+        },
         logLik: { type: "number" },
         aic: { type: "number" },
         bic: { type: "number" },

@@ -5,6 +5,18 @@ import type { CoefficientRow, FitReport } from "./types";
 
 const finiteOrNull = (value: number) => (Number.isFinite(value) ? value : null);
 
+function residualTestsOf(fit: LeastSquaresFit): NonNullable<FitReport["residualTests"]> {
+  const { heteroskedasticity, normality } = fit.residualTests;
+  const finite = (...values: number[]) => values.every(Number.isFinite);
+  return {
+    heteroskedasticity:
+      heteroskedasticity && finite(heteroskedasticity.statistic, heteroskedasticity.pValue)
+        ? { statistic: heteroskedasticity.statistic, df: heteroskedasticity.degreesOfFreedom, pValue: heteroskedasticity.pValue }
+        : null,
+    normality: normality && finite(normality.statistic, normality.pValue, normality.skewness, normality.kurtosis) ? { ...normality } : null,
+  };
+}
+
 /**
  * The report of a fit: the engine's numbers renamed for the API (estimate, stdError, tStatistic,
  * pValue, ciLow, ciHigh, vif…), exact, plus plot data for the diagnostics.
@@ -85,6 +97,7 @@ export function buildFitReport(input: {
     fTestKind: fit.fTestKind,
     fDf: [fit.fNumeratorDegreesOfFreedom, fit.fDenominatorDegreesOfFreedom],
     durbinWatson: finiteOrNull(fit.durbinWatson),
+    residualTests: residualTestsOf(fit),
     logLik: fit.logLikelihood,
     aic: fit.akaikeInformationCriterion,
     bic: fit.bayesianInformationCriterion,

@@ -82,6 +82,14 @@ export type FitReport = {
   fTestKind: "anova" | "wald";
   fDf: [number, number];
   durbinWatson: number | null;
+  /**
+   * Breusch–Pagan (Koenker's studentized form) for error variance that changes with the regressors, and
+   * Jarque–Bera for non-normal errors. Absent from reports stored before these tests were added.
+   */
+  residualTests?: {
+    heteroskedasticity: { statistic: number; df: number; pValue: number } | null;
+    normality: { statistic: number; pValue: number; skewness: number; kurtosis: number } | null;
+  };
   logLik: number;
   aic: number;
   bic: number;

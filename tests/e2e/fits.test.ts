@@ -73,6 +73,11 @@ describe("fit report", () => {
       expect(text).toMatch(/above 10/);
       expect(await tab.page.locator("td[data-strong=true]").count()).toBe(2);
       expect(await tab.page.getByTestId("durbin-watson-note").textContent()).toMatch(/close to 2/);
+      // The demo's errors have one spread and a near-normal shape: both residual checks say so in words.
+      expect(await tab.page.getByTestId("breusch-pagan-note").getAttribute("data-tone")).toBe("ok");
+      expect(await tab.page.getByTestId("breusch-pagan-note").textContent()).toMatch(/Breusch–Pagan p-value 0\.\d{3}: no sign/);
+      expect(await tab.page.getByTestId("jarque-bera-note").textContent()).toMatch(/Jarque–Bera p-value 0\.\d{3}: no sign/);
+      expect(await tab.page.getByTestId("breusch-pagan").textContent()).toMatch(/^\d+\.\d+/);
       for (const title of ["Residuals vs fitted", "Normal Q–Q of standardized residuals", "Leverage vs standardized residuals"]) {
         expect(await tab.page.getByText(title, { exact: true }).count()).toBe(1);
       }
@@ -158,6 +163,28 @@ describe("building, submitting and approving", () => {
       await tab.close();
       // The person stays (they authored a fit); their membership goes, so Larkspur's member list is as seeded.
       await sql`delete from memberships where user_id = ${user.id}`;
+    }
+  });
+});
+
+describe("refit links from the residual checks", () => {
+  test("a refit link names its standard errors and the builder starts with them chosen", async () => {
+    const tab = await openPage(browser);
+    try {
+      await signInAs(tab.page, "analyst");
+      const id = await seededFitId(approvedDemoFitName);
+      const chosen = async (query: string) => {
+        await tab.page.goto(`/fits/new?from=${id}${query}`);
+        await expect.poll(() => tab.page.getByTestId("design-n").textContent(), { timeout: 20_000 }).toBe("156");
+        return tab.page.locator("input[name=covariance]:checked").getAttribute("value");
+      };
+      expect(await chosen("")).toBe("classical");
+      expect(await chosen("&covariance=hc3")).toBe("hc3");
+      expect(await chosen("&covariance=newey-west")).toBe("newey-west");
+      expect(await chosen("&covariance=anything-else")).toBe("classical");
+      expect(tab.errors.filter((e) => e.startsWith("uncaught"))).toEqual([]);
+    } finally {
+      await tab.close();
     }
   });
 });

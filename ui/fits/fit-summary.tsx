@@ -20,6 +20,54 @@ export function durbinWatsonNote(report: Pick<FitReport, "durbinWatson" | "perio
   return { tone: "ok", text: `Durbin–Watson is ${dw.toFixed(2)}, close to 2: no sign that the errors are autocorrelated ${order}.` };
 }
 
+/** A p-value below this reads as evidence against the assumption (common practice: 5%). */
+const evidenceThreshold = 0.05;
+
+/** Plain words about Breusch–Pagan: does the spread of the errors change with the regressors? */
+export function unequalVarianceNote(report: Pick<FitReport, "residualTests" | "covariance">): { tone: "ok" | "warning"; text: string } | null {
+  const test = report.residualTests?.heteroskedasticity;
+  if (!test) return null;
+  const p = formatPValue(test.pValue);
+  if (test.pValue >= evidenceThreshold) {
+    return { tone: "ok", text: `Breusch–Pagan p-value ${p}: no sign that the spread of the errors changes with the regressors.` };
+  }
+  const remedy =
+    report.covariance.type === "classical"
+      ? "Classical standard errors assume one spread for every row, so they and the p-values may be off: refit with HC3 standard errors."
+      : `This fit's ${report.covariance.type === "hc3" ? "HC3" : "Newey–West"} standard errors allow for it.`;
+  return {
+    tone: "warning",
+    text: `Breusch–Pagan p-value ${p}: the spread of the errors changes with the regressors (unequal variance). ${remedy} Prediction intervals still assume one spread: where spend is high they may be too narrow.`,
+  };
+}
+
+/** Plain words about Jarque–Bera: are the errors near normal? */
+export function normalityNote(report: Pick<FitReport, "residualTests">): { tone: "ok" | "warning"; text: string } | null {
+  const test = report.residualTests?.normality;
+  if (!test) return null;
+  const shape = `skewness ${test.skewness.toFixed(2)}, kurtosis ${test.kurtosis.toFixed(2)}; normal errors have 0 and 3`;
+  if (test.pValue >= evidenceThreshold) {
+    return { tone: "ok", text: `Jarque–Bera p-value ${formatPValue(test.pValue)}: no sign that the errors are not normal (${shape}).` };
+  }
+  return {
+    tone: "warning",
+    text: `Jarque–Bera p-value ${formatPValue(test.pValue)}: the errors are not normal (${shape}). Coefficient intervals rely on normality less as the number of rows grows; prediction intervals rely on it at any size, so read their ends with care.`,
+  };
+}
+
+function Note({ note, label, testId }: { note: { tone: "ok" | "warning"; text: string }; label: string; testId: string }) {
+  return (
+    <p
+      data-testid={testId}
+      data-tone={note.tone}
+      className={`mt-2 rounded-md border-l-4 px-3 py-2 text-sm ${note.tone === "warning" ? "border-ember bg-white text-slate-900" : "border-reed bg-white text-slate-700"}`}
+    >
+      {note.tone === "warning" ? <strong className="text-ember">{label}: </strong> : null}
+      {note.text}
+    </p>
+  );
+}
+
 function Stat({ label, value, hint, testId }: { label: string; value: string; hint?: string; testId?: string }) {
   return (
     <div className="rounded-md border border-slate-200 bg-silt/40 px-3 py-2">
@@ -35,6 +83,10 @@ function Stat({ label, value, hint, testId }: { label: string; value: string; hi
 export function FitSummary({ report, locale }: { report: FitReport; locale: string }) {
   const outcomeUnit = report.units[report.outcome] ?? null;
   const dw = durbinWatsonNote(report);
+  const unequalVariance = unequalVarianceNote(report);
+  const normality = normalityNote(report);
+  const bp = report.residualTests?.heteroskedasticity ?? null;
+  const jb = report.residualTests?.normality ?? null;
   return (
     <div>
       <dl className="grid grid-cols-2 gap-3 sm:grid-cols-3 lg:grid-cols-4">
@@ -47,22 +99,32 @@ export function FitSummary({ report, locale }: { report: FitReport; locale: stri
           hint={`On ${report.fDf[0]} and ${report.fDf[1]} df; p-value ${formatPValue(report.fPValue)}`}
         />
         <Stat label="Observations (n)" value={report.n.toLocaleString(locale)} hint={`${report.parameterCount} coefficients estimated`} />
-        <Stat label="Durbin–Watson" value={report.durbinWatson === null ? "—" : report.durbinWatson.toFixed(3)} hint="Near 2: no first-order autocorrelation" testId="durbin-watson" />
         <Stat label="Log-likelihood" value={formatNumber(report.logLik, locale, 6)} hint={`AIC ${formatNumber(report.aic, locale, 6)} · BIC ${formatNumber(report.bic, locale, 6)}`} />
         <Stat label="Condition number" value={formatNumber(report.conditionNumber, locale, 3)} hint="Of the design with unit-length columns" />
       </dl>
       <p className="mt-3 text-sm text-slate-700">
         Standard errors: {covarianceName(report.covariance)}. Confidence level {Math.round(report.level * 1000) / 10}%.
       </p>
-      {dw ? (
-        <p
-          data-testid="durbin-watson-note"
-          className={`mt-2 rounded-md border-l-4 px-3 py-2 text-sm ${dw.tone === "warning" ? "border-ember bg-white text-slate-900" : "border-reed bg-white text-slate-700"}`}
-        >
-          {dw.tone === "warning" ? <strong className="text-ember">Autocorrelation: </strong> : null}
-          {dw.text}
-        </p>
-      ) : null}
+      <h3 className="mt-5 text-sm font-semibold text-river">Residual checks</h3>
+      <p className="text-sm text-slate-700">Whether the errors look like what the standard errors and intervals assume.</p>
+      <dl className="mt-2 grid grid-cols-1 gap-3 sm:grid-cols-3" data-testid="residual-checks">
+        <Stat label="Durbin–Watson" value={report.durbinWatson === null ? "—" : report.durbinWatson.toFixed(3)} hint="Near 2: no first-order autocorrelation" testId="durbin-watson" />
+        <Stat
+          label="Breusch–Pagan"
+          value={bp ? formatNumber(bp.statistic, locale, 4) : "—"}
+          hint={bp ? `Unequal variance: χ² on ${bp.df} df, p-value ${formatPValue(bp.pValue)} (studentized)` : report.residualTests ? "Needs an intercept" : "Not computed for this fit"}
+          testId="breusch-pagan"
+        />
+        <Stat
+          label="Jarque–Bera"
+          value={jb ? formatNumber(jb.statistic, locale, 4) : "—"}
+          hint={jb ? `Normal errors: χ² on 2 df, p-value ${formatPValue(jb.pValue)}` : "Not computed for this fit"}
+          testId="jarque-bera"
+        />
+      </dl>
+      {dw ? <Note note={dw} label="Autocorrelation" testId="durbin-watson-note" /> : null}
+      {unequalVariance ? <Note note={unequalVariance} label="Unequal variance" testId="breusch-pagan-note" /> : null}
+      {normality ? <Note note={normality} label="Not normal" testId="jarque-bera-note" /> : null}
       {report.warnings.length > 0 ? (
         <ul className="mt-2 list-disc pl-5 text-sm text-ember">
           {report.warnings.map((warning) => (

@@ -51,6 +51,11 @@ describe("POST /api/fits", () => {
     expect(body.fStatistic).toBe(engine.fStatistic);
     expect(body.fPValue).toBe(engine.fPValue);
     expect(body.durbinWatson).toBe(engine.durbinWatson);
+    const { heteroskedasticity, normality } = engine.residualTests;
+    expect(body.residualTests).toEqual({
+      heteroskedasticity: { statistic: heteroskedasticity!.statistic, df: 7, pValue: heteroskedasticity!.pValue },
+      normality: { statistic: normality!.statistic, pValue: normality!.pValue, skewness: normality!.skewness, kurtosis: normality!.kurtosis },
+    });
     expect(body.aic).toBe(engine.akaikeInformationCriterion);
     expect(body.conditionNumber).toBe(engine.conditionNumber);
     expect(body.recordChecksum).toBe(createFitRecord(engine).checksum);

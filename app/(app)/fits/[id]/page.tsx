@@ -10,7 +10,7 @@ import { CoefficientTable } from "@/ui/fits/coefficient-table";
 import { CollinearitySection } from "@/ui/fits/collinearity-section";
 import { DiagnosticsSection } from "@/ui/fits/diagnostics-section";
 import { FitActions } from "@/ui/fits/fit-actions";
-import { durbinWatsonNote, FitSummary } from "@/ui/fits/fit-summary";
+import { durbinWatsonNote, FitSummary, unequalVarianceNote } from "@/ui/fits/fit-summary";
 import { formatDateTime } from "@/ui/fits/format";
 import { ReviewTrail } from "@/ui/fits/review-trail";
 import { FitStatusBadge } from "@/ui/fits/status";
@@ -33,6 +33,8 @@ export default async function FitReportPage({ params }: Props) {
   const selfApprovalBlocked = fit.status === "in_review" && can(actor, "fit:review") && fit.authorId === actor.userId;
   const dw = durbinWatsonNote(report);
   const suggestNeweyWest = dw?.tone === "warning" && report.covariance.type !== "newey-west" && can(actor, "fit:create");
+  // Newey–West allows for unequal variance too, so HC3 is only offered when autocorrelation is not the issue.
+  const suggestHc3 = !suggestNeweyWest && unequalVarianceNote(report)?.tone === "warning" && report.covariance.type === "classical" && can(actor, "fit:create");
 
   return (
     <div className="flex flex-col gap-6">
@@ -94,6 +96,13 @@ export default async function FitReportPage({ params }: Props) {
           <p className="mt-3">
             <Link href={`/fits/new?from=${fit.id}&covariance=newey-west`} className={buttonClass("secondary")}>
               Refit with Newey–West standard errors
+            </Link>
+          </p>
+        ) : null}
+        {suggestHc3 ? (
+          <p className="mt-3">
+            <Link href={`/fits/new?from=${fit.id}&covariance=hc3`} className={buttonClass("secondary")}>
+              Refit with HC3 standard errors
             </Link>
           </p>
         ) : null}

@@ -38,7 +38,7 @@ export default async function NewFitPage({ searchParams }: Props) {
     const fit = await getFitById(from);
     if (fit && fit.workspaceId === actor.workspaceId && datasets.some((d) => d.id === fit.datasetId)) {
       initial = { ...fit.input, name: fit.name };
-      if (query.covariance === "newey-west") initial = { ...initial, covariance: { type: "newey-west" } };
+      if (query.covariance === "newey-west" || query.covariance === "hc3") initial = { ...initial, covariance: { type: query.covariance } };
       if (fit.authorId === actor.userId && (fit.status === "draft" || fit.status === "changes_requested")) refitId = fit.id;
       else initial = { ...initial, name: `${fit.name} (revised)`.slice(0, 200) };
       if (durbinWatsonNote(fit.report)?.tone === "warning") autocorrelatedDurbinWatson = fit.report.durbinWatson;
