@@ -323,7 +323,7 @@ export function FitBuilder(props: {
             {(
               [
                 ["classical", "Classical", "Errors independent with equal variance."],
-                ["hc3", "HC3", "Robust to unequal error variance (heteroskedasticity)."],
+                ["hc3", "HC3", "Robust to unequal error variance (heteroskedasticity). Use it when the Breusch–Pagan check finds the spread changing."],
                 ["newey-west", "Newey–West", "Robust to unequal variance and to errors that carry over from week to week (autocorrelation). Use it when Durbin–Watson is far from 2."],
               ] as const
             ).map(([value, label, hint]) => (
