@@ -1,12 +1,13 @@
 import { Readable } from "node:stream";
 import { and, eq, inArray } from "drizzle-orm";
 import type { Database } from "@/db/client";
-import { datasets, fits, users, workspaces } from "@/db/schema";
+import { datasets, fits } from "@/db/schema";
 import { assignDatasetRoles, createDataset } from "@/server/datasets/store";
 import { executeFit, prepareFit, storeComputedFit } from "@/server/fits/run";
 import { applyFitTransition } from "@/server/fits/transitions";
 import type { FitInput, FitStatus } from "@/server/fits/types";
 import { demoAccountFor } from "./demo-accounts";
+import { demoWorkspaceId, userIdByEmail } from "./lookup";
 import { demoChannels, demoControl, demoHistoryCsv, demoOutcome, demoPeriod } from "./history";
 
 type Db = Database["db"];
@@ -29,12 +30,6 @@ function demoFitInput(datasetId: string, name: string, channels: readonly string
     level: 0.95,
     covariance: { type: "classical" },
   };
-}
-
-async function userIdByEmail(db: Db, email: string): Promise<string> {
-  const [row] = await db.select({ id: users.id }).from(users).where(eq(users.email, email));
-  if (!row) throw new Error(`seed: demo user ${email} is missing (run the users step first)`);
-  return row.id;
 }
 
 async function ensureDemoDataset(db: Db, workspaceId: string, analystId: string): Promise<string> {
@@ -103,8 +98,7 @@ async function ensureFit(
  * Idempotent: finds the dataset and fits by name and creates only what is missing.
  */
 export async function seedDemoFit(db: Db): Promise<void> {
-  const [workspace] = await db.select({ id: workspaces.id }).from(workspaces).where(eq(workspaces.slug, "larkspur"));
-  if (!workspace) throw new Error("seed: the larkspur workspace is missing (run the users step first)");
+  const workspace = { id: await demoWorkspaceId(db) };
   const analystId = await userIdByEmail(db, demoAccountFor("analyst").email);
   const reviewerId = await userIdByEmail(db, demoAccountFor("reviewer").email);
   const datasetId = await ensureDemoDataset(db, workspace.id, analystId);

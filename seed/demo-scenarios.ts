@@ -1,6 +1,6 @@
 import { and, eq } from "drizzle-orm";
 import type { Database } from "@/db/client";
-import { comparisons, fits, scenarios, users, workspaces } from "@/db/schema";
+import { comparisons, fits, scenarios } from "@/db/schema";
 import { actorForScript } from "@/server/authz/member-actor";
 import { postComment } from "@/server/comments/store";
 import { createComparison } from "@/server/comparisons/store";
@@ -8,6 +8,7 @@ import { startScenario } from "@/server/scenarios/create";
 import { saveScenarioVersion, type SaveVersionInput } from "@/server/scenarios/save-version";
 import { getScenarioById } from "@/server/scenarios/store";
 import { demoAccountFor } from "./demo-accounts";
+import { demoWorkspaceId, userIdByEmail } from "./lookup";
 import { demoApprovedFitName } from "./demo-fit";
 
 type Db = Database["db"];
@@ -18,12 +19,6 @@ export const demoComparisonName = "Spring quarter options";
 
 /** Amounts per horizon with whole cents, as the API takes them. */
 const cents = (amount: number) => Math.round(amount * 100) / 100;
-
-async function userIdByEmail(db: Db, email: string): Promise<string> {
-  const [row] = await db.select({ id: users.id }).from(users).where(eq(users.email, email));
-  if (!row) throw new Error(`seed: demo user ${email} is missing (run the users step first)`);
-  return row.id;
-}
 
 /** The planner's scenario of this name on the fit, started (from the history's last 13 weeks) if missing. */
 async function ensureScenario(db: Db, input: { workspaceId: string; fitId: string; ownerId: string; name: string; start: () => Promise<string> }) {
@@ -47,8 +42,7 @@ async function ensureScenario(db: Db, input: { workspaceId: string; fitId: strin
  * comparison by name and adds only the versions and objects that are missing.
  */
 export async function seedDemoScenarios(db: Db): Promise<void> {
-  const [workspace] = await db.select({ id: workspaces.id }).from(workspaces).where(eq(workspaces.slug, "larkspur"));
-  if (!workspace) throw new Error("seed: the larkspur workspace is missing (run the users step first)");
+  const workspace = { id: await demoWorkspaceId(db) };
   const [fit] = await db
     .select({ id: fits.id })
     .from(fits)
