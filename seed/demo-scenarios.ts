@@ -7,6 +7,8 @@ import { createComparison } from "@/server/comparisons/store";
 import { startScenario } from "@/server/scenarios/create";
 import { saveScenarioVersion, type SaveVersionInput } from "@/server/scenarios/save-version";
 import { getScenarioById } from "@/server/scenarios/store";
+import type { ScenarioDto } from "@/server/scenarios/types";
+import type { Actor } from "@/server/authz/actor";
 import { demoAccountFor } from "./demo-accounts";
 import { demoWorkspaceId, userIdByEmail } from "./lookup";
 import { demoApprovedFitName } from "./demo-fit";
@@ -21,15 +23,31 @@ export const demoComparisonName = "Spring quarter options";
 const cents = (amount: number) => Math.round(amount * 100) / 100;
 
 /** The planner's scenario of this name on the fit, started (from the history's last 13 weeks) if missing. */
-async function ensureScenario(db: Db, input: { workspaceId: string; fitId: string; ownerId: string; name: string; start: () => Promise<string> }) {
+async function ensureScenario(db: Db, planner: Actor, fitId: string, name: string): Promise<ScenarioDto> {
   const [existing] = await db
     .select({ id: scenarios.id })
     .from(scenarios)
-    .where(and(eq(scenarios.workspaceId, input.workspaceId), eq(scenarios.fitId, input.fitId), eq(scenarios.ownerId, input.ownerId), eq(scenarios.name, input.name)));
-  const id = existing?.id ?? (await input.start());
+    .where(and(eq(scenarios.workspaceId, planner.workspaceId), eq(scenarios.fitId, fitId), eq(scenarios.ownerId, planner.userId), eq(scenarios.name, name)));
+  const id = existing?.id ?? (await startScenario(planner, { fitId, name })).id;
   const scenario = await getScenarioById(id);
-  if (!scenario) throw new Error(`seed: scenario "${input.name}" vanished`);
+  if (!scenario) throw new Error(`seed: scenario "${name}" vanished`);
   return scenario;
+}
+
+export type DemoVersion = Omit<SaveVersionInput, "baseVersion" | "horizon" | "controls"> & { note: string };
+
+/**
+ * Saves the demo versions a scenario does not have yet (over its starting plan's horizon and controls).
+ * Versions already there must be the seed's own, in order (same notes); once someone else has saved a
+ * version, nothing more is added. True when the scenario holds exactly the demo versions at the end.
+ */
+export async function saveMissingVersions(actor: Actor, scenario: ScenarioDto, versions: DemoVersion[]): Promise<boolean> {
+  const saved = [...scenario.versions].sort((a, b) => a.number - b.number);
+  if (saved.length > versions.length || saved.some((version, index) => version.note !== versions[index].note)) return false;
+  for (let index = saved.length; index < versions.length; index++) {
+    await saveScenarioVersion(actor, scenario.id, { ...versions[index], baseVersion: index, horizon: scenario.baseline.horizon, controls: scenario.baseline.controls });
+  }
+  return true;
 }
 
 /**
@@ -39,14 +57,15 @@ async function ensureScenario(db: Db, input: { workspaceId: string; fitId: strin
  * falls while online video stays), and a growing total up to 10% more, with the extra money in podcast
  * and e-mail (warned: e-mail above its observed range). A saved comparison of the three versions and a finance
  * comment on the shift give the finance screens something to show. Idempotent: finds scenarios and the
- * comparison by name and adds only the versions and objects that are missing.
+ * comparison by name and adds only the versions and objects that are missing (and none to a scenario a
+ * person has saved versions of since).
  */
 export async function seedDemoScenarios(db: Db): Promise<void> {
-  const workspace = { id: await demoWorkspaceId(db) };
+  const workspaceId = await demoWorkspaceId(db);
   const [fit] = await db
     .select({ id: fits.id })
     .from(fits)
-    .where(and(eq(fits.workspaceId, workspace.id), eq(fits.name, demoApprovedFitName), eq(fits.status, "approved")));
+    .where(and(eq(fits.workspaceId, workspaceId), eq(fits.name, demoApprovedFitName), eq(fits.status, "approved")));
   if (!fit) {
     console.log("demo scenarios: skipped (the approved demo fit is not there, e.g. it was retired)");
     return;
@@ -54,16 +73,10 @@ export async function seedDemoScenarios(db: Db): Promise<void> {
   const planner = await actorForScript(await userIdByEmail(db, demoAccountFor("planner").email), "larkspur");
   const finance = await actorForScript(await userIdByEmail(db, demoAccountFor("finance").email), "larkspur");
 
-  const spring = await ensureScenario(db, {
-    workspaceId: workspace.id,
-    fitId: fit.id,
-    ownerId: planner.userId,
-    name: demoSpringScenarioName,
-    start: async () => (await startScenario(planner, { fitId: fit.id, name: demoSpringScenarioName })).id,
-  });
+  const spring = await ensureScenario(db, planner, fit.id, demoSpringScenarioName);
   const lastQuarter = spring.baseline.allocation;
   const shift = Math.min(40_000, Math.floor(lastQuarter.display_eur / 2));
-  const springVersions: Omit<SaveVersionInput, "baseVersion">[] = [
+  const springVersions: DemoVersion[] = [
     { mode: "fixed", allocation: lastQuarter, total: spring.baseline.total, note: "Last quarter's split, kept as the reference." },
     {
       mode: "fixed",
@@ -72,41 +85,29 @@ export async function seedDemoScenarios(db: Db): Promise<void> {
       note: `€${shift.toLocaleString("en")} from display to search: search's association with sales is the clearest; display's is uncertain (it moves with online video).`,
     },
   ];
-  for (const [index, version] of springVersions.entries()) {
-    if (spring.latestVersion !== null && spring.latestVersion > index) continue;
-    await saveScenarioVersion(planner, spring.id, { ...version, baseVersion: index, horizon: spring.baseline.horizon, controls: spring.baseline.controls });
-  }
+  const springComplete = await saveMissingVersions(planner, spring, springVersions);
 
-  const growth = await ensureScenario(db, {
-    workspaceId: workspace.id,
-    fitId: fit.id,
-    ownerId: planner.userId,
-    name: demoGrowthScenarioName,
-    start: async () => (await startScenario(planner, { fitId: fit.id, name: demoGrowthScenarioName })).id,
-  });
-  if (growth.latestVersion === null) {
-    const base = growth.baseline.allocation;
-    const ceiling = cents(growth.baseline.total * 1.1);
-    const extra = Math.floor((ceiling - growth.baseline.total) * 0.9);
-    const allocation = { ...base, podcast_eur: cents(base.podcast_eur + Math.round(extra * 0.6)), email_eur: cents(base.email_eur + (extra - Math.round(extra * 0.6))) };
-    const total = cents(Object.values(allocation).reduce((sum, amount) => sum + amount, 0));
-    await saveScenarioVersion(planner, growth.id, {
-      baseVersion: 0,
+  const growth = await ensureScenario(db, planner, fit.id, demoGrowthScenarioName);
+  const base = growth.baseline.allocation;
+  const ceiling = cents(growth.baseline.total * 1.1);
+  const extra = Math.floor((ceiling - growth.baseline.total) * 0.9);
+  const growthAllocation = { ...base, podcast_eur: cents(base.podcast_eur + Math.round(extra * 0.6)), email_eur: cents(base.email_eur + (extra - Math.round(extra * 0.6))) };
+  const growthComplete = await saveMissingVersions(planner, growth, [
+    {
       mode: "growing",
-      allocation,
-      total,
+      allocation: growthAllocation,
+      total: cents(Object.values(growthAllocation).reduce((sum, amount) => sum + amount, 0)),
       ceiling,
-      horizon: growth.baseline.horizon,
-      controls: growth.baseline.controls,
       note: "Most of the headroom into podcast and e-mail. E-mail goes past the most it has had in a quarter: read its warning before trusting that part.",
-    });
-  }
+    },
+  ]);
 
   const [existingComparison] = await db
     .select({ id: comparisons.id })
     .from(comparisons)
-    .where(and(eq(comparisons.workspaceId, workspace.id), eq(comparisons.name, demoComparisonName)));
-  if (!existingComparison) {
+    .where(and(eq(comparisons.workspaceId, workspaceId), eq(comparisons.name, demoComparisonName)));
+  // Only over the seed's own versions: a scenario someone changed since keeps its versions to itself.
+  if (!existingComparison && springComplete && growthComplete) {
     const comparisonId = await createComparison(planner, {
       name: demoComparisonName,
       versions: [

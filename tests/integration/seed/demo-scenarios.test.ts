@@ -7,7 +7,12 @@ import { promisify } from "node:util";
 import { describe, expect, it } from "vitest";
 import { getDatabase } from "@/db/client";
 import { demoAccountFor } from "@/seed/demo-accounts";
-import { demoComparisonName, demoGrowthScenarioName, demoSpringScenarioName } from "@/seed/demo-scenarios";
+import { type DemoVersion, demoComparisonName, demoGrowthScenarioName, demoSpringScenarioName, saveMissingVersions } from "@/seed/demo-scenarios";
+import { actorForScript } from "@/server/authz/member-actor";
+import { startScenario } from "@/server/scenarios/create";
+import { saveScenarioVersion } from "@/server/scenarios/save-version";
+import { getScenarioById } from "@/server/scenarios/store";
+import { makePlanningWorkspace } from "../scenarios/support/workspace";
 import { getCachedFit } from "@/server/predict/fit-cache";
 import { scenarioOutcome, type ScenarioOutcome, type ScenarioWarning } from "@/server/predict/scenario-outcome";
 
@@ -125,4 +130,27 @@ describe("the demo seed's scenarios", () => {
     expect(stdout).toContain("seed: demo scenarios");
     expect(await counts()).toEqual(before);
   }, 180_000);
+
+  it("adds the demo versions a scenario lacks, and none once a person has saved a version of their own", async () => {
+    const { workspace, members, fit } = await makePlanningWorkspace();
+    const planner = await actorForScript(members.planner.id, workspace.slug);
+    const notes = (scenario: { versions: { note: string }[] }) => scenario.versions.map((version) => version.note).sort();
+    const reload = async (id: string) => (await getScenarioById(id))!;
+    const demoVersions = (scenario: Awaited<ReturnType<typeof reload>>): DemoVersion[] =>
+      ["first", "second"].map((note) => ({ mode: "fixed", allocation: scenario.baseline.allocation, total: scenario.baseline.total, note }));
+
+    // Interrupted after version 1: the second is added, and a further run adds nothing.
+    const interrupted = await reload((await startScenario(planner, { fitId: fit.fitId, name: "Interrupted demo" })).id);
+    await saveScenarioVersion(planner, interrupted.id, { ...demoVersions(interrupted)[0], baseVersion: 0, horizon: interrupted.baseline.horizon, controls: interrupted.baseline.controls });
+    expect(await saveMissingVersions(planner, await reload(interrupted.id), demoVersions(interrupted))).toBe(true);
+    expect(notes(await reload(interrupted.id))).toEqual(["first", "second"]);
+    expect(await saveMissingVersions(planner, await reload(interrupted.id), demoVersions(interrupted))).toBe(true);
+    expect((await reload(interrupted.id)).versions).toHaveLength(2);
+
+    // Someone saved their own version 1: the demo's are not stacked on top of it.
+    const taken = await reload((await startScenario(planner, { fitId: fit.fitId, name: "Taken over" })).id);
+    await saveScenarioVersion(planner, taken.id, { ...demoVersions(taken)[0], note: "my own plan", baseVersion: 0, horizon: taken.baseline.horizon, controls: taken.baseline.controls });
+    expect(await saveMissingVersions(planner, await reload(taken.id), demoVersions(taken))).toBe(false);
+    expect(notes(await reload(taken.id))).toEqual(["my own plan"]);
+  });
 });
