@@ -16,7 +16,12 @@ declare module "jstat" {
     cdf(x: number, dof: number): number;
     inv(p: number, dof: number): number;
   }
+  interface Binomial {
+    cdf(k: number, n: number, p: number): number;
+    pdf(k: number, n: number, p: number): number;
+  }
   export const jStat: {
+    binomial: Binomial;
     studentt: StudentT;
     centralF: Centralf;
     normal: Normal;

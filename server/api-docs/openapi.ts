@@ -220,6 +220,12 @@ const fits: Section = {
             },
           },
         },
+        holdout: {
+          type: "object",
+          description:
+            "The latest rows (13, at most a fifth) predicted by a refit without them: status \"done\" with periods, trainedOn, level, rows (label, actual, predicted, lower, upper, inside, extrapolating), inside, fewerInsideThanExpected, meanAbsoluteError, rootMeanSquaredError, meanAbsolutePercentageError; or status \"skipped\" with a reason. Absent from fits built before the check was added.",
+          additionalProperties: true,
+        },
         logLik: { type: "number" },
         aic: { type: "number" },
         bic: { type: "number" },

@@ -2,6 +2,7 @@ import "server-only";
 import { AppError } from "@/server/errors";
 import { type FitRecord, type NamedColumns, buildDesign, createFitRecord, fitLeastSquares } from "@/server/stats";
 import type { ModelSpecification } from "@/server/stats";
+import { holdoutCheck } from "./holdout";
 import { buildFitReport } from "./report";
 import { engineMessage } from "./specification";
 import type { CovarianceInput, FitReport } from "./types";
@@ -76,6 +77,7 @@ export function describeFit(input: FitComputeInput, { design, fit }: SolvedFit):
   const report = buildFitReport({
     fit,
     record,
+    holdout: holdoutCheck(input, fit),
     periodColumn: input.periodColumn,
     periodLabels: input.periodLabels,
     rowNumbers: input.rowNumbers ?? null,

@@ -1,7 +1,7 @@
 import "server-only";
 import { type FitRecord, type LeastSquaresFit, termColumns } from "@/server/stats";
 import { normalQq, pointsAt, scatterRows, timeSeries } from "./plot-data";
-import type { CoefficientRow, FitReport } from "./types";
+import type { CoefficientRow, FitReport, HoldoutCheck } from "./types";
 
 const finiteOrNull = (value: number) => (Number.isFinite(value) ? value : null);
 
@@ -27,6 +27,8 @@ function residualTestsOf(fit: LeastSquaresFit): NonNullable<FitReport["residualT
 export function buildFitReport(input: {
   fit: LeastSquaresFit;
   record: FitRecord;
+  /** The held-out check (server/fits/holdout.ts); left out of reports built without it. */
+  holdout?: HoldoutCheck;
   periodColumn: string | null;
   periodLabels: readonly string[] | null;
   /** Data row number (1-based, file order) of each fitted row; default 1, 2, … */
@@ -98,6 +100,7 @@ export function buildFitReport(input: {
     fDf: [fit.fNumeratorDegreesOfFreedom, fit.fDenominatorDegreesOfFreedom],
     durbinWatson: finiteOrNull(fit.durbinWatson),
     residualTests: residualTestsOf(fit),
+    ...(input.holdout ? { holdout: input.holdout } : {}),
     logLik: fit.logLikelihood,
     aic: fit.akaikeInformationCriterion,
     bic: fit.bayesianInformationCriterion,

@@ -90,6 +90,8 @@ export type FitReport = {
     heteroskedasticity: { statistic: number; df: number; pValue: number } | null;
     normality: { statistic: number; pValue: number; skewness: number; kurtosis: number } | null;
   };
+  /** The latest periods predicted by a refit without them. Absent from reports stored before the check was added. */
+  holdout?: HoldoutCheck;
   logLik: number;
   aic: number;
   bic: number;
@@ -149,3 +151,37 @@ export type FitTrailEntry = {
   to: FitStatus | null;
   comment: string | null;
 };
+
+/** One held-out row: the actual outcome against the refit's prediction interval. */
+export type HoldoutRow = {
+  /** The row's period (ISO date), null without labels. */
+  label: string | null;
+  actual: number;
+  predicted: number;
+  lower: number;
+  upper: number;
+  inside: boolean;
+  /** The row lies outside the earlier rows' ranges or their combinations. */
+  extrapolating: boolean;
+};
+
+export type HoldoutCheck =
+  | {
+      status: "done";
+      /** Rows held out (the latest, in period order). */
+      periods: number;
+      /** Rows the refit used. */
+      trainedOn: number;
+      /** Level of the prediction intervals. */
+      level: number;
+      rows: HoldoutRow[];
+      /** Held-out rows whose actual outcome fell inside the prediction interval. */
+      inside: number;
+      /** So few inside that intervals of this level would rarely (under 5%) do as badly: the recent rows differ from the history. */
+      fewerInsideThanExpected: boolean;
+      meanAbsoluteError: number;
+      rootMeanSquaredError: number;
+      /** Null when an actual outcome is zero. */
+      meanAbsolutePercentageError: number | null;
+    }
+  | { status: "skipped"; reason: string };

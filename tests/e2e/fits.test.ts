@@ -78,6 +78,9 @@ describe("fit report", () => {
       expect(await tab.page.getByTestId("breusch-pagan-note").textContent()).toMatch(/Breusch–Pagan p-value 0\.\d{3}: no sign/);
       expect(await tab.page.getByTestId("jarque-bera-note").textContent()).toMatch(/Jarque–Bera p-value 0\.\d{3}: no sign/);
       expect(await tab.page.getByTestId("breusch-pagan").textContent()).toMatch(/^\d+\.\d+/);
+      // Held-out check: the latest 13 weeks against a refit without them.
+      expect(await tab.page.getByTestId("holdout-summary").textContent()).toMatch(/Refitted on the first 143 rows \(in week_start order\), the model predicted the latest 13: \d+ of 13 actual values/);
+      expect(await tab.page.getByTestId("holdout-row").count()).toBe(13);
       for (const title of ["Residuals vs fitted", "Normal Q–Q of standardized residuals", "Leverage vs standardized residuals"]) {
         expect(await tab.page.getByText(title, { exact: true }).count()).toBe(1);
       }

@@ -3,6 +3,7 @@
 import { describe, expect, it } from "vitest";
 import { GET as getFit } from "@/app/api/fits/[id]/route";
 import { GET as listFits, POST as createFit } from "@/app/api/fits/route";
+import { generateDemoHistory } from "@/seed/history";
 import { computeFit } from "@/server/fits/compute";
 import { buildDesign, createFitRecord, fitLeastSquares } from "@/server/stats";
 import { apiRequest, demoColumns, demoRequest, makeTeam, routeContext, uploadDataset, uploadDemoDataset } from "./helpers";
@@ -57,6 +58,10 @@ describe("POST /api/fits", () => {
       normality: { statistic: normality!.statistic, pValue: normality!.pValue, skewness: normality!.skewness, kurtosis: normality!.kurtosis },
     });
     expect(body.aic).toBe(engine.akaikeInformationCriterion);
+    // The held-out check: the latest 13 weeks, by date, predicted by a refit on the 143 before them.
+    expect(body.holdout).toMatchObject({ status: "done", periods: 13, trainedOn: 143, level: 0.9 });
+    expect(body.holdout.rows.map((row: { label: string }) => row.label)).toEqual(generateDemoHistory().slice(143).map((week) => week.week_start));
+    expect(body.holdout.rows.map((row: { actual: number }) => row.actual)).toEqual(Array.from(demoColumns().sales_eur.slice(143)));
     expect(body.conditionNumber).toBe(engine.conditionNumber);
     expect(body.recordChecksum).toBe(createFitRecord(engine).checksum);
     expect(body.rSquaredUncentred).toBe(false);

@@ -11,6 +11,7 @@ import { CollinearitySection } from "@/ui/fits/collinearity-section";
 import { DiagnosticsSection } from "@/ui/fits/diagnostics-section";
 import { FitActions } from "@/ui/fits/fit-actions";
 import { durbinWatsonNote, FitSummary, unequalVarianceNote } from "@/ui/fits/fit-summary";
+import { HoldoutSection } from "@/ui/fits/holdout-section";
 import { formatDateTime } from "@/ui/fits/format";
 import { ReviewTrail } from "@/ui/fits/review-trail";
 import { FitStatusBadge } from "@/ui/fits/status";
@@ -114,6 +115,10 @@ export default async function FitReportPage({ params }: Props) {
 
       <Section id="diagnostics" title="Diagnostics" description="Do the residuals look like noise? Are a few weeks steering the fit?">
         <DiagnosticsSection report={report} locale={locale} />
+      </Section>
+
+      <Section id="holdout" title="Held-out check" description="How the model would have predicted the latest periods had it not seen them.">
+        <HoldoutSection report={report} locale={locale} />
       </Section>
 
       <Section id="trail" title="Review trail" description="Every step of this fit, from the audit log.">
