@@ -4,13 +4,10 @@ import { type FitRecord, type NamedColumns, buildDesign, createFitRecord, fitLea
 import type { ModelSpecification } from "@/server/stats";
 import { holdoutCheck } from "./holdout";
 import { buildFitReport } from "./report";
-import { engineMessage } from "./specification";
+import { engineMessage, isEngineRefusal } from "./specification";
 import type { CovarianceInput, FitReport } from "./types";
 
 export type ComputedFit = { record: FitRecord; report: FitReport };
-
-/** Engine input errors read "fitLeastSquares requires …"; anything else is a bug and is rethrown. */
-const isEngineRefusal = (error: unknown) => error instanceof Error && / requires /.test(error.message);
 
 function refusal(error: unknown): AppError {
   return new AppError("invalid:fit", "The engine refused this fit.", { details: [{ path: "terms", message: engineMessage(error) }] });

@@ -1,6 +1,7 @@
 import "server-only";
 import { type LeastSquaresFit, type NamedColumns, buildDesign, fitLeastSquares, predict, predictorColumns } from "@/server/stats";
 import type { FitComputeInput } from "./compute";
+import { engineMessage, isEngineRefusal } from "./specification";
 import type { HoldoutCheck, HoldoutRow } from "./types";
 
 /** Rows held out: a quarter of weekly data, at most a fifth of the history. */
@@ -51,7 +52,8 @@ export function holdoutCheck(input: FitComputeInput, fit: LeastSquaresFit): Hold
       covariance: input.covariance,
     });
   } catch (error) {
-    return { status: "skipped", reason: `The refit without the latest ${periods} rows was refused: ${error instanceof Error ? error.message : String(error)}.` };
+    if (!isEngineRefusal(error)) throw error;
+    return { status: "skipped", reason: `Without the latest ${periods} rows the refit is refused. ${engineMessage(error)}` };
   }
   if (earlier.aliasedTerms.length > 0) {
     return { status: "skipped", reason: `Without the latest ${periods} rows, ${earlier.aliasedTerms.map((term) => `'${term}'`).join(", ")} cannot be told apart from other terms.` };

@@ -72,6 +72,9 @@ export function designColumnCount(input: Pick<FitInput, "terms" | "interactions"
   return input.terms.length + input.interactions.length + (input.intercept ? 1 : 0);
 }
 
+/** Engine input errors read "fitLeastSquares requires …"; anything else is a bug and is rethrown. */
+export const isEngineRefusal = (error: unknown) => error instanceof Error && / requires /.test(error.message);
+
 /** The engine's messages say "fitLeastSquares requires …"; users read the requirement without the function name. */
 export function engineMessage(error: unknown): string {
   const message = error instanceof Error ? error.message : String(error);

@@ -104,6 +104,12 @@ describe("holdoutCheck", () => {
     const promoLate = input(weeks(156, 11, { promoOnlyLatest: true }));
     expect(holdoutCheck(promoLate, fitOf(promoLate))).toMatchObject({ status: "skipped", reason: expect.stringMatching(/without the latest 13 rows/i) });
 
+    // An outcome that only starts to move in the latest rows: the engine refuses the refit, in users' words.
+    const flat = weeks(156, 13);
+    flat.columns.sales = flat.columns.sales.map((value, row) => (row < 143 ? 100_000 : value));
+    const flatInput = input(flat);
+    expect(holdoutCheck(flatInput, fitOf(flatInput))).toMatchObject({ status: "skipped", reason: expect.stringMatching(/^Without the latest 13 rows the refit is refused\. The fit requires an outcome that varies/) });
+
     const huge = weeks(HOLDOUT_MAX_ROWS + 1, 12);
     const hugeInput = input(huge);
     expect(holdoutCheck(hugeInput, fitOf(hugeInput))).toMatchObject({ status: "skipped", reason: expect.stringMatching(/100,000 rows/) });
