@@ -15,7 +15,7 @@ export default function ErrorPage({ error, reset }: { error: Error & { digest?: 
       <h1 className="mt-2 text-2xl font-semibold text-river">This page could not be loaded</h1>
       <p className="mt-3 text-slate-700" role="alert">
         The server could not finish this page. If the database is restarting, it will be back in a moment.
-        {error.digest ? <span className="mt-2 block text-sm text-slate-500">Reference: {error.digest}</span> : null}
+        {error.digest ? <span className="mt-2 block text-sm text-slate-600">Reference: {error.digest}</span> : null}
       </p>
       <p className="mt-6">
         <button type="button" onClick={reset} className="rounded-md bg-shallows px-4 py-2 text-sm font-medium text-white hover:bg-river">

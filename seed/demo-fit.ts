@@ -7,14 +7,13 @@ import { executeFit, prepareFit, storeComputedFit } from "@/server/fits/run";
 import { applyFitTransition } from "@/server/fits/transitions";
 import type { FitInput, FitStatus } from "@/server/fits/types";
 import { demoAccountFor } from "./demo-accounts";
+import { demoApprovedFitName, demoDatasetName, demoDraftFitName } from "./demo-names";
 import { demoWorkspaceId, userIdByEmail } from "./lookup";
 import { demoChannels, demoControl, demoHistoryCsv, demoOutcome, demoPeriod } from "./history";
 
 type Db = Database["db"];
 
-export const demoDatasetName = "Larkspur weekly history 2023–2025";
-export const demoApprovedFitName = "Weekly sales on six channels and promotions";
-export const demoDraftFitName = "Weekly sales without online video";
+export { demoApprovedFitName, demoDatasetName, demoDraftFitName };
 
 function demoFitInput(datasetId: string, name: string, channels: readonly string[]): FitInput {
   return {

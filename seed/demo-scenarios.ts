@@ -11,13 +11,11 @@ import type { ScenarioDto } from "@/server/scenarios/types";
 import type { Actor } from "@/server/authz/actor";
 import { demoAccountFor } from "./demo-accounts";
 import { demoWorkspaceId, userIdByEmail } from "./lookup";
-import { demoApprovedFitName } from "./demo-fit";
+import { demoApprovedFitName, demoComparisonName, demoGrowthScenarioName, demoSpringScenarioName } from "./demo-names";
 
 type Db = Database["db"];
 
-export const demoSpringScenarioName = "Spring quarter: more search, less display";
-export const demoGrowthScenarioName = "Spring quarter: up to 10% more budget";
-export const demoComparisonName = "Spring quarter options";
+export { demoComparisonName, demoGrowthScenarioName, demoSpringScenarioName };
 
 /** Amounts per horizon with whole cents, as the API takes them. */
 const cents = (amount: number) => Math.round(amount * 100) / 100;

@@ -74,7 +74,7 @@ export default async function HomePage() {
               <ul className="mt-2 flex flex-col gap-1 text-sm">
                 {nextSteps.map((step) => (
                   <li key={step.href}>
-                    <Link href={step.href} className="text-shallows underline-offset-2 hover:underline">
+                    <Link href={step.href} className="text-shallows underline underline-offset-2 hover:text-river">
                       {step.text}
                     </Link>
                   </li>
@@ -99,7 +99,7 @@ export default async function HomePage() {
               {can(actor, "workspace:admin") ? (
                 <>
                   {" · "}
-                  <Link href="/settings#members" className="text-shallows underline-offset-2 hover:underline">
+                  <Link href="/settings#members" className="text-shallows underline underline-offset-2 hover:text-river">
                     all members
                   </Link>
                 </>
@@ -118,7 +118,7 @@ export default async function HomePage() {
               {awaiting.map(({ scenario, summary }) => (
                 <li key={scenario.id} className="flex flex-wrap items-center justify-between gap-3 py-2" data-testid="home-awaiting" data-scenario={scenario.id}>
                   <span className="flex flex-col">
-                    <Link href={`/scenarios/${scenario.id}`} className="text-shallows underline-offset-2 hover:underline">
+                    <Link href={`/scenarios/${scenario.id}`} className="text-shallows underline underline-offset-2 hover:text-river">
                       {scenario.name}
                     </Link>
                     <span className="text-xs text-slate-600">on {scenario.fitName}{scenario.ownerName ? ` · ${scenario.ownerName}` : ""}</span>
@@ -143,10 +143,10 @@ export default async function HomePage() {
                 <ul className="flex flex-col divide-y divide-slate-100 text-sm">
                   {approvedFits.slice(0, 5).map((fit) => (
                     <li key={fit.id} className="flex flex-wrap justify-between gap-2 py-1.5">
-                      <Link href={`/fits/${fit.id}`} className="text-shallows underline-offset-2 hover:underline">
+                      <Link href={`/fits/${fit.id}`} className="text-shallows underline underline-offset-2 hover:text-river">
                         {fit.name}
                       </Link>
-                      {fit.approvedAt ? <span className="num text-slate-500">approved {day.format(new Date(fit.approvedAt))}</span> : null}
+                      {fit.approvedAt ? <span className="num text-slate-600">approved {day.format(new Date(fit.approvedAt))}</span> : null}
                     </li>
                   ))}
                 </ul>
@@ -164,13 +164,13 @@ export default async function HomePage() {
                   {scenarios.slice(0, 5).map((scenario) => (
                     <li key={scenario.id} className="flex justify-between gap-3 py-2" data-testid="home-scenario" data-scenario={scenario.id}>
                       <span className="flex min-w-0 flex-col items-start gap-1">
-                        <Link href={`/scenarios/${scenario.id}`} className="text-shallows underline-offset-2 hover:underline">
+                        <Link href={`/scenarios/${scenario.id}`} className="text-shallows underline underline-offset-2 hover:text-river">
                           {scenario.name}
                         </Link>
                         <span className="text-xs text-slate-600">on {scenario.fitName}{scenario.ownerName ? ` · ${scenario.ownerName}` : ""}</span>
                         {scenario.latestVersion && signoffs?.get(scenario.id) ? <SignoffSummary summary={signoffs.get(scenario.id)!} /> : null}
                       </span>
-                      <span className="num shrink-0 text-right text-slate-500">
+                      <span className="num shrink-0 text-right text-slate-600">
                         {scenario.latestVersion ? `v${scenario.latestVersion}` : "no version saved"}
                         {scenario.latestSavedAt ? <span className="block text-xs">{day.format(new Date(scenario.latestSavedAt))}</span> : null}
                       </span>
@@ -193,7 +193,7 @@ export default async function HomePage() {
                 <span>
                   <strong className="font-medium">{event.actorName ?? event.actorEmail ?? "Someone"}</strong> {describeAuditEvent(event)}
                 </span>
-                <time className="num text-slate-500" dateTime={event.at.toISOString()}>
+                <time className="num text-slate-600" dateTime={event.at.toISOString()}>
                   {when.format(event.at)} UTC
                 </time>
               </li>

@@ -18,7 +18,7 @@ import {
 // Palette (design notes): deep river, shallows bands, reed for signed off, ember for warnings.
 const colors = {
   river: "#12404f",
-  shallows: "#2e7d87",
+  shallows: "#2a727b",
   pale: "#cfe5e7",
   mid: "#8fc1c6",
   reed: "#4f6d28",

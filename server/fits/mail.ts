@@ -40,7 +40,7 @@ export function fitTransitionMail(input: {
     input.link,
   ].join("\n");
   const html = `<p>${escapeHtml(headline)}</p>${
-    input.comment ? `<blockquote style="border-left:3px solid #2e7d87;margin:0;padding-left:10px">${escapeHtml(input.comment).replace(/\n/g, "<br>")}</blockquote>` : ""
+    input.comment ? `<blockquote style="border-left:3px solid #2a727b;margin:0;padding-left:10px">${escapeHtml(input.comment).replace(/\n/g, "<br>")}</blockquote>` : ""
   }<p><a href="${escapeHtml(input.link)}">Open the fit</a> in ${escapeHtml(input.workspaceName)}.</p>`;
   return { to: input.to, subject: subjects[input.transition](input.fitName), text, html };
 }

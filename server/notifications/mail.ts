@@ -30,7 +30,7 @@ export async function reviewMailMessage(mail: ReviewMail) {
     link,
   ].join("\n");
   const html = `<p>${escapeHtml(mail.headline)}</p>${
-    mail.quote ? `<blockquote style="border-left:3px solid #2e7d87;margin:0;padding-left:10px">${escapeHtml(mail.quote).replace(/\n/g, "<br>")}</blockquote>` : ""
+    mail.quote ? `<blockquote style="border-left:3px solid #2a727b;margin:0;padding-left:10px">${escapeHtml(mail.quote).replace(/\n/g, "<br>")}</blockquote>` : ""
   }${(mail.extra ?? []).map((line) => `<p>${escapeHtml(line)}</p>`).join("")}<p><a href="${escapeHtml(link)}">${escapeHtml(mail.linkLabel)}</a> in ${escapeHtml(mail.workspaceName)}.</p>`;
   return { to: mail.to, subject: mail.subject, text, html, link };
 }

@@ -94,11 +94,11 @@ export function AmountField({
           onChange={(event) => setDraft(event.target.value)}
           onBlur={commit}
           onKeyDown={onKeyDown}
-          className={`num w-full min-w-0 rounded border bg-white px-2 py-1 text-right outline-none focus-visible:ring-2 focus-visible:ring-shallows disabled:bg-slate-100 disabled:text-slate-500 ${
+          className={`num w-full min-w-0 rounded border bg-white px-2 py-1 text-right outline-none focus-visible:ring-2 focus-visible:ring-shallows disabled:bg-slate-100 disabled:text-slate-600 ${
             error ? "border-ember" : "border-slate-300"
           }`}
         />
-        {currency ? <span className="text-xs text-slate-500">{currency}</span> : null}
+        {currency ? <span className="text-xs text-slate-600">{currency}</span> : null}
       </div>
       {error ? (
         <p id={`${id}-error`} role="alert" className="mt-1 text-xs text-[#9f3f2c]">

@@ -36,7 +36,7 @@ export function BoundsDisclosure({ channel, className, store: storeProp, money: 
   return (
     <details className={`group text-sm ${className ?? ""}`}>
       <summary className="cursor-pointer select-none text-slate-600 outline-none hover:text-river focus-visible:ring-2 focus-visible:ring-shallows">
-        Bounds{summary.length > 0 ? <span className="num text-slate-500"> · {summary.join(" · ")}</span> : null}
+        Bounds{summary.length > 0 ? <span className="num text-slate-600"> · {summary.join(" · ")}</span> : null}
       </summary>
       <div className="mt-2 grid grid-cols-2 gap-3">
         <AmountField
@@ -60,7 +60,7 @@ export function BoundsDisclosure({ channel, className, store: storeProp, money: 
           onCommit={(cents) => commit({ floorCents: row.floorCents, ceilingCents: cents })}
         />
       </div>
-      <p className="mt-1 text-xs text-slate-500">{readOnly ? "Bounds are set by planners." : "Leave a field empty for no bound."}</p>
+      <p className="mt-1 text-xs text-slate-600">{readOnly ? "Bounds are set by planners." : "Leave a field empty for no bound."}</p>
     </details>
   );
 }

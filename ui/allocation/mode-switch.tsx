@@ -33,7 +33,7 @@ export function ModeSwitch({ store: storeProp, money: moneyProp, className }: Al
             key={option.mode}
             title={option.hint}
             className={`px-3 py-1.5 ${readOnly ? "cursor-not-allowed" : "cursor-pointer"} text-sm has-[:focus-visible]:ring-2 has-[:focus-visible]:ring-shallows ${
-              mode === option.mode ? "bg-river text-white" : readOnly ? "bg-white text-slate-500" : "bg-white text-river hover:bg-silt"
+              mode === option.mode ? "bg-river text-white" : readOnly ? "bg-white text-slate-600" : "bg-white text-river hover:bg-silt"
             }`}
           >
             <input
@@ -101,7 +101,7 @@ function GrowthField({ growth, disabled, onCommit }: { growth: number; disabled:
           }
           if (!disabled && String(value) !== shown) onCommit(value / 100);
         }}
-        className="num w-full rounded border border-slate-300 bg-white px-2 py-1 text-right outline-none focus-visible:ring-2 focus-visible:ring-shallows disabled:bg-slate-100 disabled:text-slate-500"
+        className="num w-full rounded border border-slate-300 bg-white px-2 py-1 text-right outline-none focus-visible:ring-2 focus-visible:ring-shallows disabled:bg-slate-100 disabled:text-slate-600"
       />
     </div>
   );

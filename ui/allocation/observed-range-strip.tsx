@@ -34,7 +34,7 @@ export function ObservedRangeStrip({
   className,
 }: ObservedRangeStripProps) {
   if (position.minCents === undefined || position.maxCents === undefined) {
-    return <p className={`text-xs text-slate-500 ${className ?? ""}`}>No observed range for this channel.</p>;
+    return <p className={`text-xs text-slate-600 ${className ?? ""}`}>No observed range for this channel.</p>;
   }
   const outside = position.status === "above" || position.status === "below";
   const periods = horizonPeriods === 1 ? `1 ${periodNoun}` : `${horizonPeriods} ${periodPlural ?? `${periodNoun}s`}`;
@@ -54,7 +54,7 @@ export function ObservedRangeStrip({
           style={{ left: pct(amountCents, maxCents) }}
         />
       </div>
-      <p className="num text-xs text-slate-500">
+      <p className="num text-xs text-slate-600">
         Observed {formatCentsCompact(position.minCents, money)}–{formatCentsCompact(position.maxCents, money)} over {periods} (
         {perPeriodMin}–{perPeriodMax} per {periodNoun} × {horizonPeriods})
       </p>

@@ -52,7 +52,7 @@ export function TotalDisplay({ periodNoun = "period", className, store: storePro
           </p>
         </div>
       )}
-      <p className="num mt-1 text-xs text-slate-500">
+      <p className="num mt-1 text-xs text-slate-600">
         {horizon} {horizon === 1 ? periodNoun : `${periodNoun}s`} · about {formatCents(perPeriod, money)} per {periodNoun} (horizon amount ÷ {horizon}), the unit
         the model was fitted on
       </p>

@@ -1,3 +1,4 @@
+import { hexToRgb, readableTextOn } from "./contrast";
 import { chartColors } from "./palette";
 
 export type CorrelationGridProps = {
@@ -10,13 +11,17 @@ export type CorrelationGridProps = {
   strongAt?: number;
 };
 
-/** Blend from white to a palette colour by |r| (shallows for positive, ember for negative). */
-function cellColor(value: number): { background: string; color: string } {
+/**
+ * Blend from white to a palette colour by |r| (shallows for positive, ember for negative), with white or
+ * black text, whichever contrasts more: one of the two always reaches 4.5:1 (√21 ≈ 4.58 at worst).
+ */
+export function cellColor(value: number): { background: string; color: string } {
   if (!Number.isFinite(value)) return { background: "#f8fafc", color: chartColors.axis };
   const strength = Math.min(1, Math.abs(value));
-  const [r, g, b] = value >= 0 ? [0x2e, 0x7d, 0x87] : [0xc8, 0x55, 0x3d];
+  const [r, g, b] = hexToRgb(value >= 0 ? chartColors.shallows : chartColors.ember);
   const mix = (channel: number) => Math.round(255 + (channel - 255) * strength * 0.85);
-  return { background: `rgb(${mix(r)}, ${mix(g)}, ${mix(b)})`, color: strength > 0.55 ? "white" : chartColors.text };
+  const background = [mix(r), mix(g), mix(b)] as const;
+  return { background: `rgb(${background.join(", ")})`, color: readableTextOn(background, "#000000") };
 }
 
 /**

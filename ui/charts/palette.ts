@@ -1,13 +1,13 @@
 // Chart colours from the Tributary palette (see /work/shared/notes/design.md, "Look").
 export const chartColors = {
   river: "#12404f",
-  shallows: "#2e7d87",
+  shallows: "#2a727b",
   /** Prediction interval: the pale band. */
   shallowsPale: "#cfe5e7",
   /** Confidence interval: the darker band inside it. */
   shallowsMid: "#8fc1c6",
-  reed: "#6b8f3a",
-  ember: "#c8553d",
+  reed: "#557330",
+  ember: "#b54a34",
   grid: "#e2e8f0",
   axis: "#475569",
   text: "#1f2a30",

@@ -158,7 +158,7 @@ function CommentItem({ node, depth, props }: { node: Node; depth: number; props:
         </p>
         <Body text={node.body} mentions={node.mentions} />
         {props.canComment && !replying ? (
-          <button type="button" onClick={() => setReplying(true)} className="text-xs font-medium text-shallows hover:underline print:hidden">
+          <button type="button" onClick={() => setReplying(true)} className="text-xs font-medium text-shallows underline underline-offset-2 hover:text-river print:hidden">
             Reply
           </button>
         ) : null}

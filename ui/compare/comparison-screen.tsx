@@ -110,7 +110,7 @@ export function ComparisonScreen({ comparison, money, comments, members, finance
       <div className="flex flex-wrap items-end justify-between gap-4">
         <div>
           <p className="text-sm text-slate-600 print:hidden">
-            <Link href="/compare" className="text-shallows hover:underline">
+            <Link href="/compare" className="text-shallows underline underline-offset-2 hover:text-river">
               Side by side
             </Link>{" "}
             / {comparison.id ? "saved comparison" : "not saved"}

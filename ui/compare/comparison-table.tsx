@@ -215,7 +215,7 @@ export function ComparisonTable({ comparison, money }: { comparison: ComparisonD
             </th>
             {columns.map((column) => (
               <td key={column.position} className={td} data-testid="fit">
-                <Link href={`/fits/${column.fit.id}`} className="text-shallows hover:underline">
+                <Link href={`/fits/${column.fit.id}`} className="text-shallows underline underline-offset-2 hover:text-river">
                   {column.fit.name}
                 </Link>{" "}
                 <span className="text-xs text-slate-600">({fitStatusWords[column.fit.status] ?? column.fit.status})</span>

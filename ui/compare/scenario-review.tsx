@@ -111,7 +111,7 @@ export function ScenarioReview({ scenarioId, scenarioName, versions, comments, m
       {versions.length > 0 ? (
         <table className="num mt-4 w-full text-sm" data-testid="version-signoffs">
           <thead>
-            <tr className="text-left text-xs text-slate-500">
+            <tr className="text-left text-xs text-slate-600">
               <th className="py-1 font-medium">Version</th>
               <th className="py-1 text-right font-medium">Total spend</th>
               <th className="py-1 pl-4 font-medium">Saved</th>
@@ -138,7 +138,7 @@ export function ScenarioReview({ scenarioId, scenarioName, versions, comments, m
                 </td>
                 <td className="py-2 text-slate-700">{version.sharedWith.length > 0 ? version.sharedWith.join(", ") : "—"}</td>
                 <td className="py-2 text-right">
-                  <button type="button" onClick={() => setSelected(version.number)} aria-pressed={version.number === selected} className="text-sm font-medium text-shallows hover:underline">
+                  <button type="button" onClick={() => setSelected(version.number)} aria-pressed={version.number === selected} className="text-sm font-medium text-shallows underline underline-offset-2 hover:text-river">
                     Review v{version.number}
                   </button>
                 </td>

@@ -64,7 +64,7 @@ export function ShareForm({ target, financeMembers, warnedVersions, title }: { t
             <label key={member.userId} className="flex items-center gap-2 text-sm">
               <input type="checkbox" checked={chosen.includes(member.userId)} onChange={(event) => toggle(member.userId, event.currentTarget.checked)} />
               <span>
-                {member.name ?? member.email} <span className="text-slate-500">({member.email})</span>
+                {member.name ?? member.email} <span className="text-slate-600">({member.email})</span>
               </span>
             </label>
           ))}

@@ -62,7 +62,7 @@ export function SignoffForm({
             {done}
           </p>
         ) : null}
-        <button type="button" onClick={() => setOpen(true)} className="text-sm font-medium text-shallows underline-offset-2 hover:underline">
+        <button type="button" onClick={() => setOpen(true)} className="text-sm font-medium text-shallows underline underline-offset-2 hover:text-river">
           Record another decision on version {version}
         </button>
       </div>
@@ -90,7 +90,7 @@ export function SignoffForm({
               className="rounded border border-slate-300 px-2 py-1.5 outline-none focus-visible:ring-2 focus-visible:ring-shallows"
             />
           </label>
-          <button type="button" disabled={pending} onClick={() => decide("signed_off")} className="inline-flex items-center justify-center rounded-md bg-reed px-4 py-2 text-sm font-medium text-white hover:bg-[#55752e] focus-visible:outline-2 focus-visible:outline-offset-2 focus-visible:outline-reed disabled:cursor-not-allowed disabled:opacity-60">
+          <button type="button" disabled={pending} onClick={() => decide("signed_off")} className="inline-flex items-center justify-center rounded-md bg-reed px-4 py-2 text-sm font-medium text-white hover:bg-[#46602a] focus-visible:outline-2 focus-visible:outline-offset-2 focus-visible:outline-reed disabled:cursor-not-allowed disabled:opacity-60">
             {pending ? "Saving…" : `Sign off version ${version}`}
           </button>
           <button type="button" disabled={pending} onClick={() => setMode("decline")} className={buttonClass("danger")}>

@@ -55,7 +55,7 @@ export function VersionPicker({ scenarios, money }: { scenarios: PickableScenari
         {withVersions.map((scenario) => (
           <li key={scenario.id}>
             <p className="text-sm">
-              <span className="font-semibold text-river">{scenario.name}</span> <span className="text-slate-500">on {scenario.fitName}</span>
+              <span className="font-semibold text-river">{scenario.name}</span> <span className="text-slate-600">on {scenario.fitName}</span>
             </p>
             <ul className="mt-1 flex flex-wrap gap-2">
               {scenario.versions.map((version) => {

@@ -39,8 +39,8 @@ export function ColumnProfile({ columns, locale, rowCount }: { columns: ProfileC
                 <th scope="row" className="py-2 pr-3 text-left font-mono font-medium text-slate-900">
                   {c.name}
                 </th>
-                <td className="py-2 pr-3 text-slate-700">{c.role ? roleLabels[c.role] : <span className="text-slate-500">not chosen</span>}</td>
-                <td className="py-2 pr-3 text-slate-700">{c.unit ?? (period ? "date" : <span className="text-slate-500">—</span>)}</td>
+                <td className="py-2 pr-3 text-slate-700">{c.role ? roleLabels[c.role] : <span className="text-slate-600">not chosen</span>}</td>
+                <td className="py-2 pr-3 text-slate-700">{c.unit ?? (period ? "date" : <span className="text-slate-600">—</span>)}</td>
                 {period ? (
                   <td colSpan={4} className="num py-2 pr-3 text-right text-slate-700">
                     {c.firstPeriod} to {c.lastPeriod}

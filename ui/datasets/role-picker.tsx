@@ -170,7 +170,7 @@ export function RolePicker(props: {
                   </td>
                   <td className="py-2">
                     {role === "ignored" || role === "period" ? (
-                      <span className="text-slate-500">—</span>
+                      <span className="text-slate-600">—</span>
                     ) : (
                       <input
                         aria-label={`Unit of ${c.name}`}

@@ -65,7 +65,7 @@ export function RowsTable({ page, locale, hrefFor }: { page: RowsPage; locale: s
           <tbody>
             {page.rows.map((row) => (
               <tr key={row.rowNumber} className="border-b border-slate-100 odd:bg-white even:bg-slate-50/50">
-                <th scope="row" className="num px-2 py-1.5 text-right font-normal text-slate-500" title={`line ${row.line} of the file`}>
+                <th scope="row" className="num px-2 py-1.5 text-right font-normal text-slate-600" title={`line ${row.line} of the file`}>
                   {row.rowNumber.toLocaleString(locale)}
                 </th>
                 {row.cells.map((cell, k) => (

@@ -52,7 +52,7 @@ export function CoefficientTable({ report, locale }: { report: FitReport; locale
             <th scope="col" className="py-2 pr-3 text-right font-semibold">{levelPercent}% interval</th>
             <th scope="col" className="py-2 pr-3 text-right font-semibold">VIF</th>
             <th scope="col" className="py-2 font-semibold">
-              Interval <span className="normal-case tracking-normal text-slate-500">(dashed line: zero)</span>
+              Interval <span className="normal-case tracking-normal text-slate-600">(dashed line: zero)</span>
             </th>
           </tr>
         </thead>
@@ -63,7 +63,7 @@ export function CoefficientTable({ report, locale }: { report: FitReport; locale
               <tr key={row.term} className={`border-b border-slate-100 align-middle ${vifWarning ? "border-l-4 border-l-ember" : ""}`} data-term={row.term}>
                 <th scope="row" className="py-2 pr-3 text-left font-medium text-slate-900">
                   <span className="font-mono text-[13px]">{row.term}</span>
-                  <span className="block text-xs font-normal text-slate-500">{perUnit(row, report)}</span>
+                  <span className="block text-xs font-normal text-slate-600">{perUnit(row, report)}</span>
                 </th>
                 <td className="num py-2 pr-3 text-right">{formatNumber(row.estimate, locale)}</td>
                 <td className="num py-2 pr-3 text-right">{formatNumber(row.stdError, locale, 3)}</td>

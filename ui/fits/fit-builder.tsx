@@ -236,7 +236,7 @@ export function FitBuilder(props: {
                       <label htmlFor={id} className="font-mono">
                         {column.name}
                       </label>{" "}
-                      <span className="text-xs text-slate-500">({column.unit ?? "no unit"})</span>
+                      <span className="text-xs text-slate-600">({column.unit ?? "no unit"})</span>
                     </td>
                     <td className="py-2 pr-3 text-slate-700">{column.role === "control" ? "Control" : column.role === "spend" ? "Spend" : "Outcome column"}</td>
                     <td className="py-2">
@@ -253,7 +253,7 @@ export function FitBuilder(props: {
                       ) : term ? (
                         <span className="text-slate-600">Linear</span>
                       ) : (
-                        <span className="text-slate-400">—</span>
+                        <span className="text-slate-600">—</span>
                       )}
                     </td>
                   </tr>
@@ -415,7 +415,7 @@ export function FitBuilder(props: {
             <div className="mt-3" data-testid="fit-job-progress">
               <p className="text-sm text-slate-700">
                 {job.status === "queued" ? "Waiting for a worker…" : (job.progress?.phase ?? "Starting…")}
-                {job.status !== "queued" && job.progress?.message ? <span className="text-slate-500"> · {job.progress.message}</span> : null}
+                {job.status !== "queued" && job.progress?.message ? <span className="text-slate-600"> · {job.progress.message}</span> : null}
               </p>
               <div
                 role="progressbar"

@@ -43,7 +43,7 @@ export function HoldoutSection({ report, locale }: { report: FitReport; locale: 
       ) : null}
       <table className="num mt-3 w-full text-sm" data-testid="holdout-table">
         <thead>
-          <tr className="text-left text-xs text-slate-500">
+          <tr className="text-left text-xs text-slate-600">
             <th className="py-1 pr-4 font-medium">{report.periodColumn ?? "Row"}</th>
             <th className="py-1 pr-4 text-right font-medium">Actual</th>
             <th className="py-1 pr-4 text-right font-medium">Predicted</th>
@@ -62,7 +62,7 @@ export function HoldoutSection({ report, locale }: { report: FitReport; locale: 
               </td>
               <td className={`py-1.5 ${row.inside ? "text-slate-700" : "font-medium text-ember"}`}>
                 {row.inside ? "yes" : row.actual > row.upper ? "no, above" : "no, below"}
-                {row.extrapolating ? <span className="ml-1 text-xs text-slate-500">(beyond the earlier rows)</span> : null}
+                {row.extrapolating ? <span className="ml-1 text-xs text-slate-600">(beyond the earlier rows)</span> : null}
               </td>
             </tr>
           ))}

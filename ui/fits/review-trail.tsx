@@ -28,7 +28,7 @@ export function ReviewTrail({ entries, locale }: { entries: FitTrailEntry[]; loc
               </span>
             ) : null}
           </p>
-          <p className="text-xs text-slate-500">
+          <p className="text-xs text-slate-600">
             <time dateTime={new Date(entry.at).toISOString()}>{formatDateTime(entry.at, locale)}</time>
           </p>
           {entry.comment ? <blockquote className="mt-1 whitespace-pre-wrap rounded bg-silt px-3 py-2 text-sm text-slate-800">{entry.comment}</blockquote> : null}

@@ -107,7 +107,7 @@ function ChannelCurve({ channel, record, shape, allocation, controls, money, uni
     <figure data-testid="response-curve" data-curve-channel={channel} data-marginal={slope.value} className="space-y-1">
       <figcaption className="flex items-baseline justify-between gap-2">
         <span className="font-medium text-river">{curve.label}</span>
-        <span className="num text-xs text-slate-500">plan {formatMoney(curve.current.amountCents / 100, money)}</span>
+        <span className="num text-xs text-slate-600">plan {formatMoney(curve.current.amountCents / 100, money)}</span>
       </figcaption>
       <ResponseCurveChart curve={curve} shape={shape} money={money} />
       <p className="num text-sm text-slate-800" data-testid="marginal-return">

@@ -47,9 +47,9 @@ export function ControlsPanel({ shape, horizon, controls, onChange, disabled }: 
                   if (event.currentTarget.value.trim() === "" || !Number.isFinite(next)) return;
                   onChange(control.name, control.kind === "count" ? Math.max(0, Math.min(horizon, Math.round(next))) : next);
                 }}
-                className="num w-20 rounded border border-slate-300 bg-white px-2 py-1 text-right outline-none focus-visible:ring-2 focus-visible:ring-shallows disabled:bg-slate-100 disabled:text-slate-500"
+                className="num w-20 rounded border border-slate-300 bg-white px-2 py-1 text-right outline-none focus-visible:ring-2 focus-visible:ring-shallows disabled:bg-slate-100 disabled:text-slate-600"
               />
-              {control.kind === "count" ? <span className="text-slate-500">of {horizon}</span> : null}
+              {control.kind === "count" ? <span className="text-slate-600">of {horizon}</span> : null}
             </div>
           );
         })}

@@ -114,7 +114,7 @@ export function OutcomePanel({ outcome, source, fetching, error, shape, money, b
               <span className="text-slate-600">Average {period}</span>
               <span className="font-medium">{fmt(outcome.perPeriod.mean)}</span>
             </span>
-            <span className="block text-right text-xs text-slate-500">
+            <span className="block text-right text-xs text-slate-600">
               expected {fmt(outcome.perPeriod.confidence[0])} – {fmt(outcome.perPeriod.confidence[1])} · one {period} {fmt(outcome.perPeriod.prediction[0])} –{" "}
               {fmt(outcome.perPeriod.prediction[1])}
             </span>
@@ -165,7 +165,7 @@ export function OutcomePanel({ outcome, source, fetching, error, shape, money, b
         <h3 className="text-sm font-semibold text-river">What each term adds (association)</h3>
         <table className="num mt-2 w-full text-sm" data-testid="contributions">
           <thead>
-            <tr className="text-left text-xs text-slate-500">
+            <tr className="text-left text-xs text-slate-600">
               <th className="font-medium">Term</th>
               <th className="text-right font-medium">Over the horizon</th>
               <th className="text-right font-medium">Per {period}</th>

@@ -262,7 +262,7 @@ export function ScenarioRoom({ scenario, fit, initialVersion, initialOutcome, mo
               Reload versions, keep my changes
             </button>
             {conflict.latestVersion ? (
-              <button type="button" onClick={() => openVersion(conflict.latestVersion as number).then(() => reloadKeepingEdits())} className="text-shallows hover:underline">
+              <button type="button" onClick={() => openVersion(conflict.latestVersion as number).then(() => reloadKeepingEdits())} className="text-shallows underline underline-offset-2 hover:text-river">
                 Open version {conflict.latestVersion} instead (drops my changes)
               </button>
             ) : null}

@@ -43,7 +43,7 @@ export function VersionDiff({ scenarioId, a, b, record, shape, money }: VersionD
     <div data-testid="version-diff" className="space-y-4">
       <table className="num w-full text-sm">
         <thead>
-          <tr className="text-left text-xs text-slate-500">
+          <tr className="text-left text-xs text-slate-600">
             <th className="font-medium">Channel</th>
             <th className="text-right font-medium">v{a}</th>
             <th className="text-right font-medium">v{b}</th>
@@ -60,7 +60,7 @@ export function VersionDiff({ scenarioId, a, b, record, shape, money }: VersionD
                 <td className="py-1">{channel.label}</td>
                 <td className="py-1 text-right">{formatMoney(before, money)}</td>
                 <td className="py-1 text-right">{formatMoney(after, money)}</td>
-                <td className={`py-1 text-right ${change === 0 ? "text-slate-400" : ""}`}>
+                <td className={`py-1 text-right ${change === 0 ? "text-slate-600" : ""}`}>
                   {change === 0 ? "—" : `${change > 0 ? "+" : "−"}${formatMoney(Math.abs(change), money)}`}
                 </td>
               </tr>

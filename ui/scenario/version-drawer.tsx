@@ -66,7 +66,7 @@ function Drawer({ open, onClose, scenarioId, versions, opened, canWrite, busy, o
         <h2 id={titleId} className="text-lg font-semibold text-river">
           Version history
         </h2>
-        <button type="button" onClick={onClose} className="rounded px-2 py-1 text-sm text-shallows hover:underline">
+        <button type="button" onClick={onClose} className="rounded px-2 py-1 text-sm text-shallows underline underline-offset-2 hover:text-river">
           Close
         </button>
       </div>
@@ -79,9 +79,9 @@ function Drawer({ open, onClose, scenarioId, versions, opened, canWrite, busy, o
               <div className="flex items-baseline justify-between gap-2">
                 <span className="font-semibold text-river">
                   v{version.number}
-                  {version.number === latest ? <span className="ml-2 text-xs font-normal text-slate-500">latest</span> : null}
+                  {version.number === latest ? <span className="ml-2 text-xs font-normal text-slate-600">latest</span> : null}
                 </span>
-                <span className="text-xs text-slate-500">
+                <span className="text-xs text-slate-600">
                   {version.authorName ?? "someone"} · {formatDateTime(version.createdAt, money.locale)}
                 </span>
               </div>
@@ -90,13 +90,13 @@ function Drawer({ open, onClose, scenarioId, versions, opened, canWrite, busy, o
                 {version.warningKinds.length > 0 ? <span className="ml-1 text-[#9f3f2c]">· warnings</span> : null}
               </p>
               {version.note ? <p className="mt-1 text-sm italic text-slate-600">“{version.note}”</p> : null}
-              {version.restoredFrom ? <p className="text-xs text-slate-500">Restored from v{version.restoredFrom}</p> : null}
+              {version.restoredFrom ? <p className="text-xs text-slate-600">Restored from v{version.restoredFrom}</p> : null}
               <div className="mt-2 flex gap-3 text-sm">
-                <button type="button" className="text-shallows hover:underline" onClick={() => onOpenVersion(version.number)}>
+                <button type="button" className="text-shallows underline underline-offset-2 hover:text-river" onClick={() => onOpenVersion(version.number)}>
                   Open v{version.number}
                 </button>
                 {canWrite && version.number !== latest ? (
-                  <button type="button" disabled={busy} className="text-shallows hover:underline disabled:opacity-50" onClick={() => onRestore(version.number)}>
+                  <button type="button" disabled={busy} className="text-shallows underline underline-offset-2 hover:text-river disabled:opacity-50" onClick={() => onRestore(version.number)}>
                     Restore v{version.number} as v{(latest ?? 0) + 1}
                   </button>
                 ) : null}

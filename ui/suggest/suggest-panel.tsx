@@ -143,7 +143,7 @@ export function SuggestPanel({ fitId, store, controls, shape, money, canWrite }:
             <table className="num w-full text-sm" data-testid="suggest-table">
               <caption className="sr-only">Current plan and suggested split per channel, {money.currency} over {periodsWord(allocation.horizonPeriods, shape.periodNoun)}</caption>
               <thead>
-                <tr className="text-left text-xs text-slate-500">
+                <tr className="text-left text-xs text-slate-600">
                   <th className="font-medium">Channel</th>
                   <th className="text-right font-medium">Current plan ({money.currency})</th>
                   <th className="text-right font-medium">Suggested ({money.currency})</th>
@@ -155,11 +155,11 @@ export function SuggestPanel({ fitId, store, controls, shape, money, canWrite }:
                   <tr key={channel.name} className="border-t border-slate-100" data-draft-channel={channel.name} data-amount={channel.amount}>
                     <td className="py-1.5">
                       {channel.label}
-                      {channel.locked ? <span className="ml-1.5 text-xs text-slate-500">(locked)</span> : null}
+                      {channel.locked ? <span className="ml-1.5 text-xs text-slate-600">(locked)</span> : null}
                     </td>
                     <td className="py-1.5 text-right text-slate-600">{formatMoney(channel.current, money)}</td>
                     <td className="py-1.5 text-right font-medium">{formatMoney(channel.amount, money)}</td>
-                    <td className={`py-1.5 text-right ${channel.change > 0 ? "text-river" : channel.change < 0 ? "text-[#9f3f2c]" : "text-slate-500"}`}>
+                    <td className={`py-1.5 text-right ${channel.change > 0 ? "text-river" : channel.change < 0 ? "text-[#9f3f2c]" : "text-slate-600"}`}>
                       {channel.change === 0 ? "—" : `${channel.change > 0 ? "+" : "−"}${formatMoney(Math.abs(channel.change), money)}`}
                     </td>
                   </tr>

@@ -79,7 +79,7 @@ function Fields({ schema }: { schema: Schema }) {
             <td className="py-1 pr-3 font-mono text-slate-700">{typeLabel(field)}</td>
             <td className="py-1 text-slate-700">
               <Prose text={field.description ?? (field.$ref ? (resolve(field).description ?? "") : "")} />
-              {field.default !== undefined ? <span className="text-slate-500"> Default {JSON.stringify(field.default)}.</span> : null}
+              {field.default !== undefined ? <span className="text-slate-600"> Default {JSON.stringify(field.default)}.</span> : null}
             </td>
           </tr>
         ))}
@@ -98,7 +98,7 @@ export default async function ApiDocsPage() {
     <div className="flex flex-col gap-6">
       <PageHeading title="API">
         <Prose text={openApiDocument.info.description} />{" "}
-        <a href="/api/openapi" className="text-shallows underline-offset-2 hover:underline">
+        <a href="/api/openapi" className="text-shallows underline underline-offset-2 hover:text-river">
           The OpenAPI 3.1 document (JSON)
         </a>
         .
@@ -152,7 +152,7 @@ export default async function ApiDocsPage() {
                             <li key={status} className="py-0.5">
                               <span className={`num font-mono font-semibold ${status.startsWith("2") ? "text-reed" : "text-ember"}`}>{status}</span>{" "}
                               {response.description}
-                              {schema ? <span className="font-mono text-slate-500"> → {typeLabel(schema)}</span> : null}
+                              {schema ? <span className="font-mono text-slate-600"> → {typeLabel(schema)}</span> : null}
                             </li>
                           );
                         })}

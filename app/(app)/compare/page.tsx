@@ -56,7 +56,7 @@ export default async function ComparePage() {
           <ul className="divide-y divide-slate-100" data-testid="shared-with-me">
             {shared.map((item) => (
               <li key={item.shareId} className="py-2">
-                <Link href={item.link} className="font-medium text-shallows hover:underline">
+                <Link href={item.link} className="font-medium text-shallows underline underline-offset-2 hover:text-river">
                   {item.title}
                 </Link>
                 <span className="ml-2 text-sm text-slate-600">
@@ -78,7 +78,7 @@ export default async function ComparePage() {
         ) : (
           <table className="num w-full text-sm" data-testid="saved-comparisons">
             <thead>
-              <tr className="text-left text-xs text-slate-500">
+              <tr className="text-left text-xs text-slate-600">
                 <th className="py-1 font-medium">Comparison</th>
                 <th className="py-1 font-medium">Versions and finance status</th>
                 <th className="py-1 font-medium">Saved by</th>
@@ -89,7 +89,7 @@ export default async function ComparePage() {
               {saved.map((comparison) => (
                 <tr key={comparison.id} className="border-t border-slate-100 align-top">
                   <td className="py-2">
-                    <Link href={`/compare/${comparison.id}`} className="font-medium text-shallows hover:underline">
+                    <Link href={`/compare/${comparison.id}`} className="font-medium text-shallows underline underline-offset-2 hover:text-river">
                       {comparison.name}
                     </Link>
                   </td>
@@ -99,7 +99,7 @@ export default async function ComparePage() {
                         <li key={`${version.scenarioId}:${version.version}`} className="flex flex-wrap items-center gap-2">
                           <span>
                             {version.scenarioName} v{version.version}
-                            {index === comparison.baselinePosition ? <span className="ml-1 text-xs text-slate-500">(baseline)</span> : null}
+                            {index === comparison.baselinePosition ? <span className="ml-1 text-xs text-slate-600">(baseline)</span> : null}
                           </span>
                           <SignoffBadge signoff={version.decision ? { decision: version.decision, decidedByName: null, decidedAt: "", reason: "" } : null} locale={money.locale} />
                         </li>
@@ -125,7 +125,7 @@ export default async function ComparePage() {
         <Section id="status" title="Sign-off status by scenario" description="A sign-off belongs to one version: a later version needs its own.">
           <table className="num w-full text-sm" data-testid="signoff-overview">
             <thead>
-              <tr className="text-left text-xs text-slate-500">
+              <tr className="text-left text-xs text-slate-600">
                 <th className="py-1 font-medium">Scenario</th>
                 <th className="py-1 font-medium">Owner</th>
                 <th className="py-1 font-medium">Latest version</th>
@@ -136,7 +136,7 @@ export default async function ComparePage() {
               {overview.map((row) => (
                 <tr key={row.scenarioId} className="border-t border-slate-100" data-testid="signoff-overview-row" data-scenario={row.scenarioId}>
                   <td className="py-2">
-                    <Link href={`/scenarios/${row.scenarioId}#review`} className="font-medium text-shallows hover:underline">
+                    <Link href={`/scenarios/${row.scenarioId}#review`} className="font-medium text-shallows underline underline-offset-2 hover:text-river">
                       {row.scenarioName}
                     </Link>
                   </td>

@@ -53,13 +53,13 @@ export default async function SpendHistoriesPage() {
                 {datasets.map((d) => (
                   <tr key={d.id} className="border-b border-slate-100">
                     <td className="py-2 pr-3">
-                      <Link href={`/datasets/${d.id}`} className="font-medium text-shallows underline-offset-2 hover:underline">
+                      <Link href={`/datasets/${d.id}`} className="font-medium text-shallows underline underline-offset-2 hover:text-river">
                         {d.name}
                       </Link>{" "}
                       <DatasetStatusBadge status={d.status} />
                     </td>
                     <td className="py-2 pr-3 text-slate-700">
-                      <span className="break-all">{d.originalFilename}</span> <span className="text-slate-500">· {formatBytes(d.byteSize, actor.locale)}</span>
+                      <span className="break-all">{d.originalFilename}</span> <span className="text-slate-600">· {formatBytes(d.byteSize, actor.locale)}</span>
                     </td>
                     <td className="num py-2 pr-3 text-right">{d.rowCount.toLocaleString(actor.locale)}</td>
                     <td className="num py-2 pr-3 text-right">{d.columnCount.toLocaleString(actor.locale)}</td>

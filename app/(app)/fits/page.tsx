@@ -29,7 +29,7 @@ export default async function FitsPage() {
       <div className="flex flex-wrap items-start justify-between gap-4">
         <PageHeading title="Fits">
           Regressions of an outcome on spend channels and controls. Only approved fits reach planners. Scripts can do the same through{" "}
-          <Link href="/api-docs#api-fits" className="text-shallows underline-offset-2 hover:underline">
+          <Link href="/api-docs#api-fits" className="text-shallows underline underline-offset-2 hover:text-river">
             the API
           </Link>
           .
@@ -77,7 +77,7 @@ export default async function FitsPage() {
                   {byStatus.get(status)!.map((fit) => (
                     <tr key={fit.id} className="border-b border-slate-100">
                       <td className="py-2 pr-3">
-                        <Link href={`/fits/${fit.id}`} className="font-medium text-shallows underline-offset-2 hover:underline">
+                        <Link href={`/fits/${fit.id}`} className="font-medium text-shallows underline underline-offset-2 hover:text-river">
                           {fit.name}
                         </Link>{" "}
                         <FitStatusBadge status={fit.status} />

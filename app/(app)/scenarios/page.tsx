@@ -33,7 +33,7 @@ export default async function ScenariosPage({ searchParams }: { searchParams: Pr
                 <li key={fit.id} className="flex flex-wrap items-center justify-between gap-3 py-2">
                   <span>
                     <span className="font-medium text-river">{fit.name}</span>
-                    {fit.approvedAt ? <span className="ml-2 text-sm text-slate-500">approved {when.format(new Date(fit.approvedAt))} UTC</span> : null}
+                    {fit.approvedAt ? <span className="ml-2 text-sm text-slate-600">approved {when.format(new Date(fit.approvedAt))} UTC</span> : null}
                   </span>
                   <Link href={`/scenarios/new?fitId=${fit.id}`} className={buttonClass("primary")}>
                     Start a scenario on {fit.name}
@@ -50,7 +50,7 @@ export default async function ScenariosPage({ searchParams }: { searchParams: Pr
         ) : (
           <table className="num w-full text-sm" data-testid="scenario-list">
             <thead>
-              <tr className="text-left text-xs text-slate-500">
+              <tr className="text-left text-xs text-slate-600">
                 <th className="py-1 pr-4 font-medium">Scenario</th>
                 <th className="py-1 pr-4 font-medium">Fit</th>
                 <th className="py-1 pr-4 font-medium">Owner</th>
@@ -65,7 +65,7 @@ export default async function ScenariosPage({ searchParams }: { searchParams: Pr
                 return (
                   <tr key={scenario.id} className="border-t border-slate-100" data-testid="scenario-row" data-scenario={scenario.id}>
                     <td className="py-2 pr-4">
-                      <Link href={`/scenarios/${scenario.id}`} className="font-medium text-shallows hover:underline">
+                      <Link href={`/scenarios/${scenario.id}`} className="font-medium text-shallows underline underline-offset-2 hover:text-river">
                         {scenario.name}
                       </Link>
                     </td>

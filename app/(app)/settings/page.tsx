@@ -38,7 +38,7 @@ export default async function SettingsPage() {
           </dd>
         </dl>
         <p className="mt-4 text-sm">
-          <Link href="/settings/tokens" className="font-medium text-shallows underline-offset-2 hover:underline">
+          <Link href="/settings/tokens" className="font-medium text-shallows underline underline-offset-2 hover:text-river">
             API tokens
           </Link>{" "}
           — let scripts call Tributary&apos;s API with your roles.
@@ -98,7 +98,7 @@ export default async function SettingsPage() {
 
           {isLocalMailSink() && can(actor, "mail:outbox") ? (
             <Section id="outbox" title="Local mail outbox" description="This copy of Tributary sends e-mail to a local sink instead of delivering it.">
-              <Link href="/settings/outbox" className="text-sm font-medium text-shallows underline-offset-2 hover:underline">
+              <Link href="/settings/outbox" className="text-sm font-medium text-shallows underline underline-offset-2 hover:text-river">
                 Open the outbox
               </Link>
             </Section>

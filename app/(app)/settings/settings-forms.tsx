@@ -102,7 +102,7 @@ export function MemberRow({
       <div className="flex flex-wrap items-baseline justify-between gap-2">
         <span>
           <span className="font-medium">{label}</span> <span className="text-sm text-slate-600">{member.email}</span>
-          {isSelf ? <span className="ml-2 text-xs text-slate-500">(you)</span> : null}
+          {isSelf ? <span className="ml-2 text-xs text-slate-600">(you)</span> : null}
         </span>
       </div>
       <div className="flex flex-wrap items-center justify-between gap-3">

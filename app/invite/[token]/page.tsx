@@ -45,7 +45,7 @@ export default async function InvitationPage({ params }: { params: Promise<{ tok
       <Shell title={`Invitation to ${invitation.workspaceName}`}>
         <p role="alert" className="text-slate-700">{text}</p>
         <p className="mt-4 text-sm">
-          <Link href="/login" className="text-shallows underline-offset-2 hover:underline">Go to sign-in</Link>
+          <Link href="/login" className="text-shallows underline underline-offset-2 hover:text-river">Go to sign-in</Link>
         </p>
       </Shell>
     );
@@ -94,7 +94,7 @@ export default async function InvitationPage({ params }: { params: Promise<{ tok
         <p className="text-slate-700">
           You already have a Tributary account as <strong>{invitation.email}</strong>.{" "}
           <Link
-            className="font-medium text-shallows underline-offset-2 hover:underline"
+            className="font-medium text-shallows underline underline-offset-2 hover:text-river"
             href={`/login?${new URLSearchParams({ callbackUrl: `/invite/${token}`, email: invitation.email })}`}
           >
             Sign in as {invitation.email}

@@ -29,7 +29,7 @@ export default async function ComparisonPreviewPage({ searchParams }: { searchPa
           <p role="alert" className="rounded-md border-l-4 border-ember bg-white px-4 py-3 text-sm">
             {error.message}
           </p>
-          <Link href="/compare" className="text-shallows hover:underline">
+          <Link href="/compare" className="text-shallows underline underline-offset-2 hover:text-river">
             Pick versions again
           </Link>
         </div>

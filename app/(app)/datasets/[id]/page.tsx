@@ -57,7 +57,7 @@ export default async function SpendHistoryPage({ params, searchParams }: Props) 
       <div className="flex flex-wrap items-start justify-between gap-4">
         <div className="min-w-0">
           <p className="text-sm">
-            <Link href="/datasets" className="text-shallows underline-offset-2 hover:underline">
+            <Link href="/datasets" className="text-shallows underline underline-offset-2 hover:text-river">
               Spend histories
             </Link>
           </p>
@@ -167,7 +167,7 @@ export default async function SpendHistoryPage({ params, searchParams }: Props) 
           <ul className="flex flex-col gap-1 text-sm">
             {fits.map((fit) => (
               <li key={fit.id} className="flex flex-wrap items-center gap-2">
-                <Link href={`/fits/${fit.id}`} className="font-medium text-shallows underline-offset-2 hover:underline">
+                <Link href={`/fits/${fit.id}`} className="font-medium text-shallows underline underline-offset-2 hover:text-river">
                   {fit.name}
                 </Link>
                 <FitStatusBadge status={fit.status as FitStatus} />

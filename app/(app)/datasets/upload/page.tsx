@@ -12,7 +12,7 @@ export default async function UploadSpendHistoryPage() {
   return (
     <div className="flex flex-col gap-2">
       <p className="text-sm">
-        <Link href="/datasets" className="text-shallows underline-offset-2 hover:underline">
+        <Link href="/datasets" className="text-shallows underline underline-offset-2 hover:text-river">
           Spend histories
         </Link>
       </p>

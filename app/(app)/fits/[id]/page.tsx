@@ -42,7 +42,7 @@ export default async function FitReportPage({ params }: Props) {
       <div className="flex flex-wrap items-start justify-between gap-4">
         <div>
           <p className="text-sm">
-            <Link href="/fits" className="text-shallows underline-offset-2 hover:underline">
+            <Link href="/fits" className="text-shallows underline underline-offset-2 hover:text-river">
               Fits
             </Link>
           </p>
@@ -52,7 +52,7 @@ export default async function FitReportPage({ params }: Props) {
           <p className="mt-1 text-sm text-slate-700">
             <span className="font-mono">{report.outcome}</span> on {report.coefficients.length - (report.intercept ? 1 : 0)} terms
             {report.intercept ? " with an intercept" : ", no intercept"} · {report.n.toLocaleString(locale)} rows of{" "}
-            <Link href={`/datasets/${fit.datasetId}`} className="text-shallows underline-offset-2 hover:underline">
+            <Link href={`/datasets/${fit.datasetId}`} className="text-shallows underline underline-offset-2 hover:text-river">
               {fit.datasetName ?? "the spend history"}
             </Link>{" "}
             · built by {fit.authorName ?? "—"} on {formatDateTime(fit.createdAt, locale)}

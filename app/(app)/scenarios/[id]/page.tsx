@@ -38,7 +38,7 @@ export default async function ScenarioPage({ params }: { params: Promise<{ id: s
     <div className="space-y-4">
       <div>
         <p className="text-sm text-slate-600">
-          <Link href="/scenarios" className="text-shallows hover:underline">
+          <Link href="/scenarios" className="text-shallows underline underline-offset-2 hover:text-river">
             Scenarios
           </Link>{" "}
           / on the fit <strong>{fit.name}</strong>
@@ -49,7 +49,7 @@ export default async function ScenarioPage({ params }: { params: Promise<{ id: s
             <span>Finance:</span>
             <SignoffSummary summary={signoff} />
             {signoff.latestVersion !== null ? (
-              <a href="#review" className="text-shallows hover:underline">
+              <a href="#review" className="text-shallows underline underline-offset-2 hover:text-river">
                 Finance review
               </a>
             ) : null}

@@ -19,7 +19,7 @@ export default async function OutboxPage() {
       <PageHeading title="Local mail outbox">
         <p>
           This copy of Tributary delivers no e-mail: the local sink keeps every message here instead (newest first).{" "}
-          <Link href="/settings" className="text-shallows underline-offset-2 hover:underline">Back to settings</Link>
+          <Link href="/settings" className="text-shallows underline underline-offset-2 hover:text-river">Back to settings</Link>
         </p>
       </PageHeading>
       <Section id="messages" title={`${messages.length} message${messages.length === 1 ? "" : "s"}`}>

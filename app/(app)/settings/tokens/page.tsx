@@ -20,7 +20,7 @@ export default async function TokensPage() {
       <PageHeading title="API tokens">
         <p>
           Personal tokens let scripts (finance exports, reports) call Tributary&apos;s API as you, with your roles in {actor.workspaceName}.{" "}
-          <Link href="/settings" className="text-shallows underline-offset-2 hover:underline">
+          <Link href="/settings" className="text-shallows underline underline-offset-2 hover:text-river">
             Back to settings
           </Link>
         </p>
@@ -57,7 +57,7 @@ export default async function TokensPage() {
                       <td className="num py-2 pr-4">{date.format(token.createdAt)}</td>
                       <td className="num py-2 pr-4">{token.expiresAt ? date.format(token.expiresAt) : "Never"}</td>
                       <td className="num py-2 pr-4">{token.lastUsedAt ? date.format(token.lastUsedAt) : "Not yet"}</td>
-                      <td className={`py-2 pr-4 ${state === "Active" ? "text-reed" : "text-slate-500"}`}>{state}</td>
+                      <td className={`py-2 pr-4 ${state === "Active" ? "text-reed" : "text-slate-600"}`}>{state}</td>
                       <td className="py-2 text-right">{state === "Active" ? <RevokeTokenButton tokenId={token.id} name={token.name} /> : null}</td>
                     </tr>
                   );

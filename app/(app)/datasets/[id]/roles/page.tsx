@@ -23,11 +23,11 @@ export default async function DatasetRolesPage({ params }: Props) {
   return (
     <div className="flex flex-col gap-2">
       <p className="text-sm">
-        <Link href="/datasets" className="text-shallows underline-offset-2 hover:underline">
+        <Link href="/datasets" className="text-shallows underline underline-offset-2 hover:text-river">
           Spend histories
         </Link>{" "}
         /{" "}
-        <Link href={`/datasets/${dataset.id}`} className="text-shallows underline-offset-2 hover:underline">
+        <Link href={`/datasets/${dataset.id}`} className="text-shallows underline underline-offset-2 hover:text-river">
           {dataset.name}
         </Link>
       </p>
