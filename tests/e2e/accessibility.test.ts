@@ -4,14 +4,14 @@
 import AxeBuilder from "@axe-core/playwright";
 import type { Browser, Page } from "playwright-core";
 import { afterAll, beforeAll, describe, expect, test } from "vitest";
-import { demoApprovedFitName, demoComparisonName, demoDatasetName, demoSpringScenarioName } from "@/seed/demo-names";
+import { demoApprovedFitName, demoComparisonName, demoDatasetName, demoDraftFitName, demoSpringScenarioName } from "@/seed/demo-names";
 import type { Role } from "@/db/schema/workspaces";
 import { launch, openPage } from "./support/browser";
 import { signInAs, testDatabase } from "./support/sign-in";
 
 let browser: Browser;
 let sql: ReturnType<typeof testDatabase>;
-const ids: Record<"fit" | "dataset" | "scenario" | "comparison", string> = { fit: "", dataset: "", scenario: "", comparison: "" };
+const ids: Record<"fit" | "draft" | "dataset" | "scenario" | "comparison", string> = { fit: "", draft: "", dataset: "", scenario: "", comparison: "" };
 
 beforeAll(async () => {
   browser = await launch();
@@ -22,6 +22,7 @@ beforeAll(async () => {
     return row.id;
   };
   ids.fit = await one(sql`select f.id from fits f join workspaces w on w.id = f.workspace_id where w.slug = 'larkspur' and f.name = ${demoApprovedFitName}`, "approved fit");
+  ids.draft = await one(sql`select f.id from fits f join workspaces w on w.id = f.workspace_id where w.slug = 'larkspur' and f.name = ${demoDraftFitName}`, "draft fit");
   ids.dataset = await one(sql`select d.id from datasets d join workspaces w on w.id = d.workspace_id where w.slug = 'larkspur' and d.name = ${demoDatasetName}`, "dataset");
   ids.scenario = await one(sql`select s.id from scenarios s join workspaces w on w.id = s.workspace_id where w.slug = 'larkspur' and s.name = ${demoSpringScenarioName}`, "scenario");
   ids.comparison = await one(sql`select c.id from comparisons c join workspaces w on w.id = c.workspace_id where w.slug = 'larkspur' and c.name = ${demoComparisonName}`, "comparison");
@@ -47,7 +48,7 @@ async function violations(page: Page): Promise<string[]> {
 const screens: { role: Role | null; paths: () => string[] }[] = [
   { role: null, paths: () => ["/login"] },
   { role: "planner", paths: () => ["/", "/scenarios", `/scenarios/${ids.scenario}`, `/scenarios/new?fitId=${ids.fit}`, "/compare", `/compare/${ids.comparison}`, "/notifications"] },
-  { role: "analyst", paths: () => ["/datasets", `/datasets/${ids.dataset}`, "/datasets/upload", "/fits", "/fits/new", `/fits/${ids.fit}`] },
+  { role: "analyst", paths: () => ["/datasets", `/datasets/${ids.dataset}`, "/datasets/upload", "/fits", "/fits/new", `/fits/${ids.fit}`, "/fits/compare", `/fits/compare?ids=${ids.fit},${ids.draft}`] },
   { role: "reviewer", paths: () => ["/", `/fits/${ids.fit}`] },
   { role: "finance", paths: () => ["/", `/compare/${ids.comparison}`, `/scenarios/${ids.scenario}`] },
   { role: "admin", paths: () => ["/settings", "/settings/tokens", "/settings/outbox", "/api-docs"] },

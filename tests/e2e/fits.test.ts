@@ -7,7 +7,7 @@ import { afterAll, beforeAll, describe, expect, test } from "vitest";
 import { hashPassword } from "@/server/auth/password";
 import { launch, openPage } from "./support/browser";
 import { waitForMail } from "./support/mail";
-import { api, createTokenFor, demoAccountFor, signInAs, testDatabase } from "./support/sign-in";
+import { api, createTokenFor, demoAccountFor, demoAccounts, signInAs, testDatabase } from "./support/sign-in";
 
 const approvedDemoFitName = "Weekly sales on six channels and promotions";
 
@@ -188,6 +188,55 @@ describe("refit links from the residual checks", () => {
       expect(tab.errors.filter((e) => e.startsWith("uncaught"))).toEqual([]);
     } finally {
       await tab.close();
+    }
+  });
+});
+
+describe("fits side by side", () => {
+  test("an analyst compares the approved fit with the draft without video: one best per ranked figure, video missing from the draft, display named as shifting", async () => {
+    const tab = await openPage(browser);
+    try {
+      await signInAs(tab.page, "analyst");
+      const approved = await seededFitId(approvedDemoFitName);
+      const draft = await seededFitId("Weekly sales without online video");
+      await tab.page.goto("/fits");
+      await tab.page.getByRole("link", { name: "Compare fits" }).click();
+      await tab.page.waitForURL("**/fits/compare");
+      await tab.page.locator(`input[name=ids][value="${approved}"]`).check();
+      await tab.page.locator(`input[name=ids][value="${draft}"]`).check();
+      await tab.page.getByRole("button", { name: "Compare" }).click();
+      await tab.page.waitForURL((url) => url.pathname === "/fits/compare" && url.searchParams.getAll("ids").length === 2);
+
+      expect(await tab.page.getByTestId("comparison-basis").textContent()).toMatch(/Same outcome on the same 156 rows/);
+      for (const key of ["aic", "bic", "adjRSquared", "sigma", "holdoutMae"]) {
+        expect(await tab.page.getByTestId(`summary-${key}`).locator("td[data-best=true]").count(), key).toBe(1);
+      }
+      expect(await tab.page.getByTestId("summary-rSquared").locator("td[data-best=true]").count()).toBe(0);
+      // Columns follow the order the fits were asked for.
+      const order = new URL(tab.page.url()).searchParams.getAll("ids");
+      const video = tab.page.locator('[data-testid=term-row][data-term="video_eur"]');
+      expect(await video.locator("td").nth(order.indexOf(draft)).textContent()).toBe("not in this fit");
+      expect(await video.locator("td").nth(order.indexOf(approved)).textContent()).toMatch(/^2\.08/);
+      expect(await tab.page.locator('[data-testid=term-row][data-term="display_eur"]').getAttribute("data-shifting")).toBe("true");
+      expect(await tab.page.getByTestId("shift-caution").textContent()).toMatch(/display_eur .*shares credit/);
+      await tab.screenshot("fits-side-by-side");
+
+      // One fit only: the chooser asks for another; a fit of another workspace does not exist here.
+      await tab.page.goto(`/fits/compare?ids=${approved}`);
+      expect(await tab.page.getByTestId("compare-problem").textContent()).toBe("Pick at least one more fit.");
+      expect(tab.errors.filter((e) => e.startsWith("uncaught"))).toEqual([]);
+    } finally {
+      await tab.close();
+    }
+    const outsider = await openPage(browser);
+    try {
+      await signInAs(outsider.page, demoAccounts.find((account) => account.workspace === "foreign")!);
+      const approved = await seededFitId(approvedDemoFitName);
+      const draft = await seededFitId("Weekly sales without online video");
+      const response = await outsider.page.goto(`/fits/compare?ids=${approved},${draft}`);
+      expect(response?.status()).toBe(404);
+    } finally {
+      await outsider.close();
     }
   });
 });

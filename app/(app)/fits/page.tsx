@@ -34,11 +34,18 @@ export default async function FitsPage() {
           </Link>
           .
         </PageHeading>
-        {can(actor, "fit:create") ? (
-          <Link href="/fits/new" className={buttonClass("primary")}>
-            Build a fit
-          </Link>
-        ) : null}
+        <div className="flex flex-wrap gap-2">
+          {can(actor, "fit:create") ? (
+            <Link href="/fits/new" className={buttonClass("primary")}>
+              Build a fit
+            </Link>
+          ) : null}
+          {fits.length >= 2 ? (
+            <Link href="/fits/compare" className={buttonClass("secondary")}>
+              Compare fits
+            </Link>
+          ) : null}
+        </div>
       </div>
       {fits.length === 0 ? (
         <Section title="No fits yet">

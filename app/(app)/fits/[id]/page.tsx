@@ -76,6 +76,9 @@ export default async function FitReportPage({ params }: Props) {
             {fit.authorId === actor.userId && (fit.status === "draft" || fit.status === "changes_requested") ? "Change and refit" : "Build a new fit from this one"}
           </Link>
         ) : null}
+        <Link href={`/fits/compare?choose=1&ids=${fit.id}`} className={buttonClass("secondary")}>
+          Compare with other fits
+        </Link>
       </div>
 
       {actions.length > 0 || selfApprovalBlocked ? (
