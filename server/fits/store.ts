@@ -5,7 +5,7 @@ import { db } from "@/db/client";
 import { auditLog, datasets, fits, users, type FitRow } from "@/db/schema";
 import { recordAudit, type DbExecutor } from "@/server/data/audit";
 import type { FitRecord, ModelSpecification } from "@/server/stats";
-import type { CovarianceInput, FitDto, FitInput, FitReport, FitStatus, FitSummaryDto, FitTrailEntry } from "./types";
+import type { CovarianceInput, FitDto, FitInput, FitReport, FitStatus, FitSummaryDto, FitTrailEntry, HeldOutSummary } from "./types";
 
 const approvers = alias(users, "approvers");
 
@@ -72,6 +72,25 @@ export async function getFitById(id: string, executor: DbExecutor = db): Promise
     covariance: { type: covarianceType as FitDto["covariance"]["type"], lag: neweyWestLag },
     report: row.report as unknown as FitReport,
   };
+}
+
+/**
+ * The held-out check's outcome of a fit (not its rows), read out of the stored report without loading the
+ * rest of it: the scenario room shows it beside the intervals. Null for reports stored before the check.
+ */
+export async function getFitHoldoutSummary(input: { workspaceId: string; id: string }): Promise<HeldOutSummary | null> {
+  const [row] = await db
+    .select({
+      status: sql<string | null>`${fits.report} -> 'holdout' ->> 'status'`,
+      inside: sql<number | null>`(${fits.report} -> 'holdout' ->> 'inside')::int`,
+      periods: sql<number | null>`(${fits.report} -> 'holdout' ->> 'periods')::int`,
+      level: sql<number | null>`(${fits.report} -> 'holdout' ->> 'level')::float8`,
+      fewer: sql<boolean | null>`(${fits.report} -> 'holdout' ->> 'fewerInsideThanExpected')::boolean`,
+    })
+    .from(fits)
+    .where(and(eq(fits.id, input.id), eq(fits.workspaceId, input.workspaceId)));
+  if (!row || row.status !== "done" || row.inside === null || row.periods === null || row.level === null) return null;
+  return { inside: row.inside, periods: row.periods, level: row.level, fewerInsideThanExpected: row.fewer === true };
 }
 
 /** The stored fit record (what prediction reads); verify it with parseFitRecord before use. */

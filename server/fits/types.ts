@@ -185,3 +185,6 @@ export type HoldoutCheck =
       meanAbsolutePercentageError: number | null;
     }
   | { status: "skipped"; reason: string };
+
+/** What the scenario room says about a fit's held-out check. */
+export type HeldOutSummary = { inside: number; periods: number; level: number; fewerInsideThanExpected: boolean };

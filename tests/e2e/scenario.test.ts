@@ -78,6 +78,8 @@ describe("scenario room", () => {
     await page.waitForURL(/\/scenarios\/[0-9a-f-]{36}$/, { timeout: 30_000 });
     await confirmedTotal(page);
     expect(await page.getByTestId("unit-conversion").textContent()).toMatch(/over 13 weeks = €[\d,]+ per week, the unit the model was fitted on/);
+    // Beside the intervals: how this fit's intervals did on the latest weeks held out of a refit.
+    expect(await page.getByTestId("held-out-note").textContent()).toMatch(/^Checked on held-out weeks: refitted without the latest 13, this fit's 95% prediction intervals held \d+ of them\./);
     await tab.screenshot("scenario-02-room");
   });
 

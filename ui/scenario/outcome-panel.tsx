@@ -5,6 +5,7 @@ import type { MoneyLocale } from "@/server/planning/allocation";
 import { type PlanShape, periodsWord } from "@/server/predict/plan-shape";
 import type { ScenarioOutcome, ScenarioWarning } from "@/server/predict/scenario-outcome";
 import { IntervalRow, intervalDomain } from "@/ui/charts/interval-row";
+import type { HeldOutSummary } from "@/server/fits/types";
 import { Caution, LARGE_SHIFT_SHARE, cautionText } from "./cautions";
 import { formatOutcome, formatOutcomeCompact, formatPercent, formatSignedOutcome } from "./format";
 import { OutcomeInterval, stableDomain } from "./outcome-interval";
@@ -21,6 +22,8 @@ export interface OutcomePanelProps {
   baselineDescription: string;
   /** Share of the starting budget this plan moves (see shiftShare). */
   shift: number;
+  /** The fit's held-out check, when it has one. */
+  heldOut?: HeldOutSummary | null;
 }
 
 function WarningList({ warnings }: { warnings: readonly ScenarioWarning[] }) {
@@ -45,7 +48,7 @@ function WarningList({ warnings }: { warnings: readonly ScenarioWarning[] }) {
  * the difference from the starting plan with its own interval, warnings, contributions and the
  * cautions next to the numbers they qualify.
  */
-export function OutcomePanel({ outcome, source, fetching, error, shape, money, baselineTotal, baselineDescription, shift }: OutcomePanelProps) {
+export function OutcomePanel({ outcome, source, fetching, error, shape, money, baselineTotal, baselineDescription, shift, heldOut = null }: OutcomePanelProps) {
   const domainRef = useRef<[number, number] | null>(null);
   const differenceDomainRef = useRef<[number, number] | null>(null);
   if (!outcome) {
@@ -121,6 +124,13 @@ export function OutcomePanel({ outcome, source, fetching, error, shape, money, b
           </li>
         </ul>
         <Caution>{cautionText.modelHolds} The realised total also varies with what the model does not see, which the pale band includes.</Caution>
+        {heldOut ? (
+          <Caution tone={heldOut.fewerInsideThanExpected ? "strong" : "quiet"} testId="held-out-note">
+            Checked on held-out {period}s: refitted without the latest {heldOut.periods}, this fit&apos;s {formatPercent(heldOut.level, money.locale)} prediction
+            intervals held {heldOut.inside} of them.
+            {heldOut.fewerInsideThanExpected ? " That is fewer than such intervals should: the recent market differs from the history, so read this interval as too narrow." : ""}
+          </Caution>
+        ) : null}
       </div>
 
       <WarningList warnings={outcome.warnings} />

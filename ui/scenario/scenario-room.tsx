@@ -8,6 +8,7 @@ import { channelWarningSentences } from "@/server/predict/channel-warnings";
 import type { ScenarioOutcome, ScenarioPlan } from "@/server/predict/scenario-outcome";
 import type { ChannelSettings, ScenarioDto, VersionDto } from "@/server/scenarios/types";
 import type { FitRecord } from "@/server/stats";
+import type { HeldOutSummary } from "@/server/fits/types";
 import { AllocationPanel } from "@/ui/allocation";
 import { createAllocationStore, useAllocationStore, type AllocationStore } from "@/ui/stores/allocation-store";
 import { ApiError, scenarioApi } from "./api";
@@ -48,6 +49,8 @@ export interface ScenarioRoomProps {
   /** May change the plan and save versions (scenario:write on an approved fit); otherwise the room is read-only. */
   canWrite: boolean;
   canPredict: boolean;
+  /** How the fit's intervals did on the latest periods held out of a refit; null when unknown. */
+  heldOut?: HeldOutSummary | null;
 }
 
 function settingsOf(allocation: AllocationState): ChannelSettings {
@@ -87,7 +90,7 @@ const MemoControlsPanel = memo(ControlsPanel);
 type Conflict = { message: string; latestVersion: number | null };
 
 /** The scenario screen: channel rows on the left, the outcome on the right, history in a drawer. */
-export function ScenarioRoom({ scenario, fit, initialVersion, initialOutcome, money, canWrite, canPredict }: ScenarioRoomProps) {
+export function ScenarioRoom({ scenario, fit, initialVersion, initialOutcome, money, canWrite, canPredict, heldOut = null }: ScenarioRoomProps) {
   const shape = fit.shape;
   const startTotalCents = amountToCents(scenario.baseline.total);
   const baselinePlan: ScenarioPlan = useMemo(
@@ -321,6 +324,7 @@ export function ScenarioRoom({ scenario, fit, initialVersion, initialOutcome, mo
             baselineTotal={prediction.outcome?.difference?.baselineTotal ?? null}
             baselineDescription={scenario.baseline.description}
             shift={shift}
+            heldOut={heldOut}
           />
         </div>
       </div>

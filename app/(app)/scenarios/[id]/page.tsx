@@ -2,6 +2,7 @@ import type { Metadata } from "next";
 import Link from "next/link";
 import { notFound } from "next/navigation";
 import { can, requirePageActor, roleLabels } from "@/server/authz";
+import { getFitHoldoutSummary } from "@/server/fits/store";
 import { getCachedFit } from "@/server/predict/fit-cache";
 import { amountToCents } from "@/server/planning/allocation";
 import { scenarioOutcome } from "@/server/predict/scenario-outcome";
@@ -24,9 +25,10 @@ export default async function ScenarioPage({ params }: { params: Promise<{ id: s
   if (!scenario || scenario.workspaceId !== actor.workspaceId) notFound();
   const fit = await getCachedFit(scenario.fitId);
   if (!fit || fit.workspaceId !== actor.workspaceId) notFound();
-  const [latest, signoff] = await Promise.all([
+  const [latest, signoff, heldOut] = await Promise.all([
     scenario.latestVersion === null ? null : getScenarioVersion(scenario.id, scenario.latestVersion),
     getScenarioSignoffSummary(actor.workspaceId, scenario.id),
+    getFitHoldoutSummary({ workspaceId: actor.workspaceId, id: fit.id }),
   ]);
   const approved = fit.status === "approved";
   const money = moneyOf(actor);
@@ -75,6 +77,7 @@ export default async function ScenarioPage({ params }: { params: Promise<{ id: s
         money={money}
         canWrite={approved && plans}
         canPredict={approved && can(actor, "fit:predict")}
+        heldOut={heldOut}
       />
       <ScenarioReviewSection actor={actor} scenario={scenario} />
     </div>
