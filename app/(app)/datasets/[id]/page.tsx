@@ -17,6 +17,7 @@ import { formatCompact, formatDateTime, shortPeriod } from "@/ui/fits/format";
 import { FitStatusBadge } from "@/ui/fits/status";
 import { Section } from "@/ui/section";
 import type { FitStatus } from "@/server/fits/types";
+import { Breadcrumb } from "@/ui/breadcrumb";
 
 export const metadata: Metadata = { title: "Spend history" };
 
@@ -56,11 +57,7 @@ export default async function SpendHistoryPage({ params, searchParams }: Props) 
     <div className="flex flex-col gap-6">
       <div className="flex flex-wrap items-start justify-between gap-4">
         <div className="min-w-0">
-          <p className="text-sm">
-            <Link href="/datasets" className="text-shallows underline underline-offset-2 hover:text-river">
-              Spend histories
-            </Link>
-          </p>
+          <Breadcrumb trail={[{ href: "/datasets", label: "Spend histories" }]} />
           <h1 className="mt-1 flex flex-wrap items-center gap-3 text-2xl font-semibold text-river">
             <span data-testid="dataset-name">{dataset.name}</span> <DatasetStatusBadge status={dataset.status} />
           </h1>

@@ -16,6 +16,7 @@ import { formatDateTime } from "@/ui/fits/format";
 import { ReviewTrail } from "@/ui/fits/review-trail";
 import { FitStatusBadge } from "@/ui/fits/status";
 import { Section } from "@/ui/section";
+import { Breadcrumb } from "@/ui/breadcrumb";
 
 export const metadata: Metadata = { title: "Fit report" };
 
@@ -41,11 +42,7 @@ export default async function FitReportPage({ params }: Props) {
     <div className="flex flex-col gap-6">
       <div className="flex flex-wrap items-start justify-between gap-4">
         <div>
-          <p className="text-sm">
-            <Link href="/fits" className="text-shallows underline underline-offset-2 hover:text-river">
-              Fits
-            </Link>
-          </p>
+          <Breadcrumb trail={[{ href: "/fits", label: "Fits" }]} />
           <h1 className="mt-1 flex flex-wrap items-center gap-3 text-2xl font-semibold text-river">
             <span data-testid="fit-name">{fit.name}</span> <FitStatusBadge status={fit.status} />
           </h1>

@@ -11,6 +11,7 @@ import { FitComparisonSummary, FitComparisonTerms } from "@/ui/fits/fit-comparis
 import { formatDateTime } from "@/ui/fits/format";
 import { FitStatusBadge } from "@/ui/fits/status";
 import { PageHeading, Section } from "@/ui/section";
+import { Breadcrumb } from "@/ui/breadcrumb";
 
 export const metadata: Metadata = { title: "Fits side by side" };
 
@@ -41,11 +42,7 @@ export default async function CompareFitsPage({ searchParams }: Props) {
 
   const heading = (
     <>
-      <p className="text-sm">
-        <Link href="/fits" className="text-shallows underline underline-offset-2 hover:text-river">
-          Fits
-        </Link>
-      </p>
+      <Breadcrumb trail={[{ href: "/fits", label: "Fits" }]} />
       <PageHeading title="Fits side by side">
         Whole-model figures and every term&apos;s estimate, one column per fit: how the numbers move as terms come and go.
       </PageHeading>

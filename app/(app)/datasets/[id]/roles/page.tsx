@@ -1,5 +1,4 @@
 import type { Metadata } from "next";
-import Link from "next/link";
 import { notFound } from "next/navigation";
 import { z } from "zod";
 import { requirePageActor } from "@/server/authz";
@@ -7,6 +6,7 @@ import { isFrozenByFit, listFitsOfDataset } from "@/server/datasets/details";
 import { getDatasetById } from "@/server/datasets/store";
 import { RolePicker } from "@/ui/datasets/role-picker";
 import { PageHeading, Section } from "@/ui/section";
+import { Breadcrumb } from "@/ui/breadcrumb";
 
 export const metadata: Metadata = { title: "Column roles" };
 
@@ -22,15 +22,12 @@ export default async function DatasetRolesPage({ params }: Props) {
 
   return (
     <div className="flex flex-col gap-2">
-      <p className="text-sm">
-        <Link href="/datasets" className="text-shallows underline underline-offset-2 hover:text-river">
-          Spend histories
-        </Link>{" "}
-        /{" "}
-        <Link href={`/datasets/${dataset.id}`} className="text-shallows underline underline-offset-2 hover:text-river">
-          {dataset.name}
-        </Link>
-      </p>
+      <Breadcrumb
+        trail={[
+          { href: "/datasets", label: "Spend histories" },
+          { href: `/datasets/${dataset.id}`, label: dataset.name },
+        ]}
+      />
       <PageHeading title={dataset.status === "ready" ? "Change the column roles" : "Step 2 of 2: what each column is"}>
         {dataset.rowCount.toLocaleString(actor.locale)} rows and {dataset.columnCount} columns were read from {dataset.originalFilename}. Choose the outcome (what the spend
         should explain), the spend channels, any controls (price, promotions, weather…) and the period column. The checks that depend on these roles run when you

@@ -1,0 +1,18 @@
+import Link from "next/link";
+import { Fragment } from "react";
+
+/** The way back above a page's title: "Spend histories / Larkspur weekly history", each part a link. */
+export function Breadcrumb({ trail }: { trail: { href: string; label: string }[] }) {
+  return (
+    <nav aria-label="Breadcrumb" className="text-sm">
+      {trail.map((step, index) => (
+        <Fragment key={step.href}>
+          {index > 0 ? " / " : null}
+          <Link href={step.href} className="text-shallows underline underline-offset-2 hover:text-river">
+            {step.label}
+          </Link>
+        </Fragment>
+      ))}
+    </nav>
+  );
+}
