@@ -585,6 +585,31 @@ const scenarios: Section = {
     },
   },
   paths: {
+    "/api/fits/compare": {
+      get: {
+        tags: ["Fits"],
+        summary: "Two to four fits side by side",
+        description:
+          "Whole-model figures (R², adjusted R², σ, AIC, BIC, residual checks, the held-out check) with the best marked only when the fits share outcome and rows (`sameRows`), every term's estimate, interval and p-value per fit (null where a fit leaves the term out), and `shiftingTerms`: terms whose estimate changes sign or moves by more than half its interval between fits.",
+        parameters: [
+          {
+            name: "ids",
+            in: "query",
+            required: true,
+            description: "2–4 fit ids, comma-separated or repeated",
+            schema: { type: "array", items: { type: "string", format: "uuid" }, minItems: 2, maxItems: 4 },
+            style: "form",
+            explode: true,
+          },
+        ],
+        responses: {
+          "200": jsonBody({ type: "object", additionalProperties: true }, "fits, sameRows, summary, terms, shiftingTerms."),
+          "404": error("A fit is not in this workspace."),
+          "422": error("Fewer than two or more than four fits, or an id that is not a UUID."),
+          ...commonErrors,
+        },
+      },
+    },
     "/api/fits/{id}/predict": {
       post: {
         tags: ["Scenarios"],

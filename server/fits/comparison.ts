@@ -1,4 +1,7 @@
 import "server-only";
+import type { Actor } from "@/server/authz/actor";
+import { assertInWorkspace } from "@/server/authz/scope";
+import { getFitById } from "./store";
 import type { CoefficientRow, FitDto, FitReport, FitStatus } from "./types";
 
 /** Fits shown side by side at most (columns stay readable). */
@@ -129,4 +132,13 @@ export function compareFits(fits: FitDto[]): FitComparison {
     terms,
     shiftingTerms,
   };
+}
+
+/** The fits to compare, in the order asked; another workspace's fit, or a missing one, is 404 for the whole request. */
+export async function loadFitsToCompare(actor: Pick<Actor, "workspaceId">, ids: readonly string[]): Promise<FitDto[]> {
+  const fits = await Promise.all(ids.map((id) => getFitById(id)));
+  return fits.map((fit) => {
+    assertInWorkspace(actor, fit, "fit");
+    return fit;
+  });
 }

@@ -112,6 +112,7 @@ const routes: RouteCase[] = [
   // An empty body: allowed roles reach validation (422) and nothing is created.
   { method: "POST", route: "/api/fits", who: ["analyst"], ok: 422, body: {} },
   { method: "GET", route: "/api/fits/[id]", who: ["admin", "analyst", "reviewer", "planner", "finance"], ok: 200, path: async (fx) => `/api/fits/${await fx.fitId("approved")}` },
+  { method: "GET", route: "/api/fits/compare", who: ["admin", "analyst", "reviewer", "planner", "finance"], ok: 200, path: async (fx) => `/api/fits/compare?ids=${await fx.fitId("approved")},${await fx.fitId("draft")}` },
   // An empty body is refused (422) before the fit is looked up, so there is no foreign-workspace case here.
   { method: "PUT", route: "/api/fits/[id]", who: ["analyst"], ok: 422, path: async (fx) => `/api/fits/${await fx.fitId("draft")}`, body: {}, foreign: false },
   {

@@ -3,8 +3,9 @@ import Link from "next/link";
 import { notFound } from "next/navigation";
 import { z } from "zod";
 import { requirePageActor } from "@/server/authz";
-import { compareFits, MAX_COMPARED_FITS } from "@/server/fits/comparison";
-import { getFitById, listFitsByWorkspaceId } from "@/server/fits/store";
+import { AppError } from "@/server/errors";
+import { compareFits, loadFitsToCompare, MAX_COMPARED_FITS } from "@/server/fits/comparison";
+import { listFitsByWorkspaceId } from "@/server/fits/store";
 import type { FitDto } from "@/server/fits/types";
 import { buttonClass } from "@/ui/button-class";
 import { FitComparisonSummary, FitComparisonTerms } from "@/ui/fits/fit-comparison";
@@ -34,10 +35,11 @@ export default async function CompareFitsPage({ searchParams }: Props) {
 
   let fits: FitDto[] | null = null;
   if (!choosing && !malformed && ids.length >= 2 && ids.length <= MAX_COMPARED_FITS) {
-    const loaded = await Promise.all(ids.map((id) => getFitById(id)));
     // Another workspace's fit does not exist here, whatever else was asked for.
-    if (loaded.some((fit) => !fit || fit.workspaceId !== actor.workspaceId)) notFound();
-    fits = loaded as FitDto[];
+    fits = await loadFitsToCompare(actor, ids).catch((error: unknown) => {
+      if (error instanceof AppError && error.status === 404) notFound();
+      throw error;
+    });
   }
 
   const heading = (
