@@ -12,6 +12,8 @@ import { DiagnosticsSection } from "@/ui/fits/diagnostics-section";
 import { FitActions } from "@/ui/fits/fit-actions";
 import { durbinWatsonNote, FitSummary, unequalVarianceNote } from "@/ui/fits/fit-summary";
 import { HoldoutSection } from "@/ui/fits/holdout-section";
+import { reportChecks } from "@/ui/fits/report-checks";
+import { ReportChecks } from "@/ui/fits/report-checks-section";
 import { formatDateTime } from "@/ui/fits/format";
 import { ReviewTrail } from "@/ui/fits/review-trail";
 import { FitStatusBadge } from "@/ui/fits/status";
@@ -77,6 +79,10 @@ export default async function FitReportPage({ params }: Props) {
           Compare with other fits
         </Link>
       </div>
+
+      <Section id="checks" title="Checks" description="What a reviewer reads before approving, from the numbers below; each links to its section.">
+        <ReportChecks checks={reportChecks(report, fit.input.terms.filter((term) => term.role === "spend").map((term) => term.column), locale)} />
+      </Section>
 
       {actions.length > 0 || selfApprovalBlocked ? (
         <Section id="review" title="Review" description={reviewHint(fit.status)}>
