@@ -2,20 +2,13 @@ import "server-only";
 import type { Actor } from "@/server/authz/actor";
 import { assertInWorkspace } from "@/server/authz/scope";
 import { getFitById } from "./store";
-import type { CoefficientRow, FitDto, FitReport, FitStatus } from "./types";
+import type { CoefficientRow, FitDto, FitReport, FitSummaryDto } from "./types";
 
 /** Fits shown side by side at most (columns stay readable). */
 export const MAX_COMPARED_FITS = 4;
 
-export type ComparedFit = {
-  id: string;
-  name: string;
-  status: FitStatus;
-  datasetId: string;
-  datasetName: string | null;
-  outcome: string;
+export type ComparedFit = Pick<FitSummaryDto, "id" | "name" | "status" | "datasetId" | "datasetName" | "outcome" | "n"> & {
   outcomeUnit: string | null;
-  n: number;
   covariance: FitReport["covariance"];
   level: number;
 };
