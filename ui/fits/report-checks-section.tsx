@@ -20,6 +20,7 @@ export function ReportChecks({ checks }: { checks: ReportCheck[] }) {
           <li key={check.key} className="flex flex-wrap items-start gap-3 text-sm" data-check={check.key} data-status={check.status}>
             <span className={`inline-flex w-24 shrink-0 justify-center rounded-full border bg-white px-2 py-0.5 text-xs font-semibold ${statusStyles[check.status]}`}>
               {statusWords[check.status]}
+              <span className="sr-only">:</span>
             </span>
             <span className="min-w-0 flex-1">
               <a href={check.anchor} className="font-medium text-shallows underline underline-offset-2 hover:text-river">
