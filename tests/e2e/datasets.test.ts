@@ -126,6 +126,7 @@ describe("spend histories in the browser", () => {
     expect(await grid.locator("td").count()).toBe(49); // 6 channels and the promotion control
     expect(await grid.locator('td[data-strong="true"]').count()).toBe(2); // video and display move together
     await page.getByTestId("outcome-plot").locator("svg path").first().waitFor({ timeout: 30_000 });
+    expect(await page.getByTestId("period-coverage").textContent()).toBe("One row every week (7 days), no gaps.");
     expect(await page.getByTestId("dataset-history").textContent()).toContain("uploaded the spend history");
     await tab.screenshot("datasets-history-page");
 

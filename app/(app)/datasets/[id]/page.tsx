@@ -18,6 +18,7 @@ import { FitStatusBadge } from "@/ui/fits/status";
 import { Section } from "@/ui/section";
 import type { FitStatus } from "@/server/fits/types";
 import { Breadcrumb } from "@/ui/breadcrumb";
+import { describeCoverage, periodCoverage } from "@/server/datasets/period-coverage";
 
 export const metadata: Metadata = { title: "Spend history" };
 
@@ -199,6 +200,7 @@ async function OutcomeOverTime({ dataset, outcomeName, unit, locale }: { dataset
   const values = frame.columns[outcomeName];
   const labelOf = (i: number) => (frame.periods ? frame.periods[i] : `row ${frame.rowNumbers[i]}`);
   const bucket = Math.ceil(frame.n / MAX_PLOT_POINTS);
+  const coverage = frame.periods ? periodCoverage(frame.periods) : null;
   const labels: string[] = [];
   const points: number[] = [];
   for (let start = 0; start < frame.n; start += bucket) {
@@ -220,6 +222,15 @@ async function OutcomeOverTime({ dataset, outcomeName, unit, locale }: { dataset
         formatLabel={(label) => shortPeriod(label, locale)}
         footer={`${frame.n.toLocaleString(locale)} periods${frame.periods ? ` from ${frame.periods[0]} to ${frame.periods[frame.n - 1]}` : ""}.`}
       />
+      {coverage ? (
+        <p
+          data-testid="period-coverage"
+          data-gaps={coverage.gaps.length}
+          className={`mt-2 text-sm ${coverage.gaps.length > 0 ? "rounded-md border-l-4 border-ember bg-white px-3 py-2 text-slate-900" : "text-slate-700"}`}
+        >
+          {describeCoverage(coverage)}
+        </p>
+      ) : null}
     </div>
   );
 }
