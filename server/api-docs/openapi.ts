@@ -220,6 +220,11 @@ const fits: Section = {
             },
           },
         },
+        periodCoverage: {
+          type: ["object", "null"],
+          description: "Whether the fitted rows' periods come at one steady step: step (days or periods), gaps ({after, before, missing}), missing. Null without a period column; absent from older fits.",
+          additionalProperties: true,
+        },
         holdout: {
           type: "object",
           description:

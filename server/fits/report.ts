@@ -1,5 +1,6 @@
 import "server-only";
 import { type FitRecord, type LeastSquaresFit, termColumns } from "@/server/stats";
+import { periodCoverage } from "@/server/datasets/period-coverage";
 import { normalQq, pointsAt, scatterRows, timeSeries } from "./plot-data";
 import type { CoefficientRow, FitReport, HoldoutCheck } from "./types";
 
@@ -101,6 +102,7 @@ export function buildFitReport(input: {
     durbinWatson: finiteOrNull(fit.durbinWatson),
     residualTests: residualTestsOf(fit),
     ...(input.holdout ? { holdout: input.holdout } : {}),
+    periodCoverage: input.periodLabels ? periodCoverage(input.periodLabels) : null,
     logLik: fit.logLikelihood,
     aic: fit.akaikeInformationCriterion,
     bic: fit.bayesianInformationCriterion,

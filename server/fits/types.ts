@@ -1,4 +1,5 @@
 import "server-only";
+import type { PeriodCoverage } from "@/server/datasets/period-coverage";
 import type { CovarianceType, ModelSpecification } from "@/server/stats";
 
 import type { FitStatus } from "@/db/schema/fits";
@@ -92,6 +93,8 @@ export type FitReport = {
   };
   /** The latest periods predicted by a refit without them. Absent from reports stored before the check was added. */
   holdout?: HoldoutCheck;
+  /** Whether the fitted rows' periods come at one steady step (null without a period column). Absent from older reports. */
+  periodCoverage?: PeriodCoverage | null;
   logLik: number;
   aic: number;
   bic: number;

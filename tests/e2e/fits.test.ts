@@ -82,7 +82,7 @@ describe("fit report", () => {
       expect(await tab.page.getByTestId("report-checks-summary").textContent()).toBe("2 things to look at before approving.");
       const checks = tab.page.getByTestId("report-checks").locator("li");
       const states = Object.fromEntries(await checks.evaluateAll((items) => items.map((item) => [item.getAttribute("data-check"), item.getAttribute("data-status")])));
-      expect(states).toEqual({ collinearity: "look", autocorrelation: "ok", variance: "ok", normality: "ok", holdout: "ok", influence: "ok", "spend-signs": "look" });
+      expect(states).toEqual({ collinearity: "look", periods: "ok", autocorrelation: "ok", variance: "ok", normality: "ok", holdout: "ok", influence: "ok", "spend-signs": "look" });
       expect(await tab.page.locator('[data-check="spend-signs"]').textContent()).toMatch(/^Look:Spend with a negative estimate: display_eur/);
       // Held-out check: the latest 13 weeks against a refit without them.
       expect(await tab.page.getByTestId("holdout-summary").textContent()).toMatch(/Refitted on the first 143 rows \(in week_start order\), the model predicted the latest 13: \d+ of 13 actual values/);

@@ -7,7 +7,7 @@ import { durbinWatsonNote, normalityNote, unequalVarianceNote } from "./fit-summ
 import { formatNumber } from "./format";
 
 export type ReportCheck = {
-  key: "collinearity" | "autocorrelation" | "variance" | "normality" | "holdout" | "influence" | "spend-signs";
+  key: "collinearity" | "periods" | "autocorrelation" | "variance" | "normality" | "holdout" | "influence" | "spend-signs";
   label: string;
   /** "look": something to read before approving; "unknown": the report predates the check. */
   status: "ok" | "look" | "unknown";
@@ -38,6 +38,22 @@ export function reportChecks(report: FitReport, spendColumns: readonly string[],
         }),
   });
 
+  const coverage = report.periodCoverage;
+  if (coverage !== null) {
+    checks.push({
+      key: "periods",
+      label: "Periods",
+      anchor: "#diagnostics",
+      ...(coverage === undefined
+        ? { status: "unknown", text: "Not computed for this fit: refit it to see this check." }
+        : coverage.gaps.length === 0
+          ? { status: "ok", text: "One row per period, no gaps." }
+          : {
+              status: "look",
+              text: `${coverage.missing} ${coverage.missing === 1 ? "period is" : "periods are"} missing in ${coverage.gaps.length} ${coverage.gaps.length === 1 ? "gap" : "gaps"} (first after ${coverage.gaps[0].after}): Durbin–Watson, Newey–West and the held-out check take neighbouring rows as neighbouring periods.`,
+            }),
+    });
+  }
   checks.push({ key: "autocorrelation", label: "Autocorrelation", anchor: "#summary", ...fromNote(durbinWatsonNote(report)) });
   checks.push({ key: "variance", label: "Unequal variance", anchor: "#summary", ...fromNote(unequalVarianceNote(report)) });
   checks.push({ key: "normality", label: "Normal errors", anchor: "#summary", ...fromNote(normalityNote(report)) });

@@ -58,6 +58,7 @@ describe("POST /api/fits", () => {
       normality: { statistic: normality!.statistic, pValue: normality!.pValue, skewness: normality!.skewness, kurtosis: normality!.kurtosis },
     });
     expect(body.aic).toBe(engine.akaikeInformationCriterion);
+    expect(body.periodCoverage).toEqual({ step: 7, unit: "days", gaps: [], missing: 0 });
     // The held-out check: the latest 13 weeks, by date, predicted by a refit on the 143 before them.
     expect(body.holdout).toMatchObject({ status: "done", periods: 13, trainedOn: 143, level: 0.9 });
     expect(body.holdout.rows.map((row: { label: string }) => row.label)).toEqual(generateDemoHistory().slice(143).map((week) => week.week_start));

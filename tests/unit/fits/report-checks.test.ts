@@ -2,6 +2,7 @@
 // display's estimate negative) and the same history with one bad row typed in. Thresholds (VIF 10,
 // Cook's distance 1, 5% p-values) are common practice.
 import { describe, expect, it } from "vitest";
+import { periodCoverage } from "@/server/datasets/period-coverage";
 import { computeFit } from "@/server/fits/compute";
 import type { FitReport } from "@/server/fits/types";
 import { demoChannels, demoControl, generateDemoHistory } from "@/seed/history";
@@ -34,7 +35,7 @@ describe("reportChecks", () => {
     expect(checks.collinearity.text).toMatch(/video_eur \(VIF 18\.\d\), display_eur \(VIF 18\.\d\) above 10/);
     expect(checks["spend-signs"].status).toBe("look");
     expect(checks["spend-signs"].text).toMatch(/^display_eur \(-0\.\d+, interval -3\.\d+ to 2\.\d+\)/);
-    for (const key of ["autocorrelation", "variance", "normality", "holdout", "influence"]) expect(checks[key].status, key).toBe("ok");
+    for (const key of ["periods", "autocorrelation", "variance", "normality", "holdout", "influence"]) expect(checks[key].status, key).toBe("ok");
     expect(checks.holdout.text).toMatch(/of the latest 13 fell inside/);
   });
 
@@ -50,9 +51,21 @@ describe("reportChecks", () => {
     expect(checks.influence.text).toMatch(/\(data row 41\), above 1/);
   });
 
+  it("points at missing weeks, which the time-order figures take no account of", () => {
+    const labels = generateDemoHistory().map((row) => row.week_start);
+    const gapped = periodCoverage([...labels.slice(0, 50), ...labels.slice(53)]);
+    const checks = byKey({ ...demoReport(), periodCoverage: gapped });
+    expect(checks.periods.status).toBe("look");
+    expect(checks.periods.text).toBe(
+      `3 periods are missing in 1 gap (first after ${labels[49]}): Durbin–Watson, Newey–West and the held-out check take neighbouring rows as neighbouring periods.`,
+    );
+    expect(byKey({ ...demoReport(), periodCoverage: null }).periods).toBeUndefined(); // no period column: nothing to say
+  });
+
   it("says a check is missing on a report stored before it existed", () => {
-    const { residualTests: _residualTests, holdout: _holdout, ...older } = demoReport();
+    const { residualTests: _residualTests, holdout: _holdout, periodCoverage: _coverage, ...older } = demoReport();
     const checks = byKey(older as FitReport);
+    expect(checks.periods.status).toBe("unknown");
     expect(checks.variance.status).toBe("unknown");
     expect(checks.normality.status).toBe("unknown");
     expect(checks.holdout.status).toBe("unknown");
