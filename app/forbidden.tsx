@@ -1,3 +1,5 @@
+import { textLinkClass } from "@/ui/button-class";
+
 /** Rendered with status 403 when requirePageActor finds the role missing. */
 export default function Forbidden() {
   return (
@@ -7,7 +9,7 @@ export default function Forbidden() {
       <p className="mt-3 text-slate-700">Ask an admin of the workspace if you need another role.</p>
       <p className="mt-6">
         {/* A plain link: next/link here would ship its client code with every page, as these boundaries do. */}
-        <a href="/" className="font-medium text-shallows underline underline-offset-2 hover:text-river">Back to home</a>
+        <a href="/" className={`font-medium ${textLinkClass}`}>Back to home</a>
       </p>
     </main>
   );

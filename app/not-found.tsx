@@ -1,4 +1,5 @@
 import { connection } from "next/server";
+import { textLinkClass } from "@/ui/button-class";
 
 export default async function NotFound() {
   // Rendered per request, not prebuilt: the page's scripts then carry the request's CSP nonce (proxy.ts)
@@ -11,7 +12,7 @@ export default async function NotFound() {
       <p className="mt-3 text-slate-700">This page does not exist, or it belongs to another workspace.</p>
       <p className="mt-6">
         {/* A plain link: next/link here would ship its client code with every page, as these boundaries do. */}
-        <a href="/" className="font-medium text-shallows underline underline-offset-2 hover:text-river">Back to home</a>
+        <a href="/" className={`font-medium ${textLinkClass}`}>Back to home</a>
       </p>
     </main>
   );

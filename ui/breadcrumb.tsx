@@ -1,5 +1,6 @@
 import Link from "next/link";
 import { Fragment } from "react";
+import { textLinkClass } from "@/ui/button-class";
 
 /** The way back above a page's title: "Spend histories / Larkspur weekly history", each part a link. */
 export function Breadcrumb({ trail }: { trail: { href: string; label: string }[] }) {
@@ -8,7 +9,7 @@ export function Breadcrumb({ trail }: { trail: { href: string; label: string }[]
       {trail.map((step, index) => (
         <Fragment key={step.href}>
           {index > 0 ? " / " : null}
-          <Link href={step.href} className="text-shallows underline underline-offset-2 hover:text-river">
+          <Link href={step.href} className={textLinkClass}>
             {step.label}
           </Link>
         </Fragment>

@@ -11,3 +11,6 @@ const variants: Record<Variant, string> = {
 export function buttonClass(variant: Variant = "primary", extra = "") {
   return `inline-flex items-center justify-center gap-2 rounded-md px-4 py-2 text-sm font-medium transition-colors focus-visible:outline-2 focus-visible:outline-offset-2 disabled:cursor-not-allowed disabled:opacity-60 ${variants[variant]} ${extra}`;
 }
+
+/** A link in running text or a table: underlined, so colour is not what tells it apart. */
+export const textLinkClass = "text-shallows underline underline-offset-2 hover:text-river";

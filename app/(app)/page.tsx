@@ -8,6 +8,7 @@ import { listScenarioSignoffSummaries } from "@/server/signoffs/summary";
 import { SignoffSummary } from "@/ui/compare/signoff-summary";
 import { Section, RoleBadge } from "@/ui/section";
 import { describeAuditEvent } from "@/ui/audit-event";
+import { textLinkClass } from "@/ui/button-class";
 
 export const metadata: Metadata = { title: "Home" };
 
@@ -74,7 +75,7 @@ export default async function HomePage() {
               <ul className="mt-2 flex flex-col gap-1 text-sm">
                 {nextSteps.map((step) => (
                   <li key={step.href}>
-                    <Link href={step.href} className="text-shallows underline underline-offset-2 hover:text-river">
+                    <Link href={step.href} className={textLinkClass}>
                       {step.text}
                     </Link>
                   </li>
@@ -99,7 +100,7 @@ export default async function HomePage() {
               {can(actor, "workspace:admin") ? (
                 <>
                   {" · "}
-                  <Link href="/settings#members" className="text-shallows underline underline-offset-2 hover:text-river">
+                  <Link href="/settings#members" className={textLinkClass}>
                     all members
                   </Link>
                 </>
@@ -118,7 +119,7 @@ export default async function HomePage() {
               {awaiting.map(({ scenario, summary }) => (
                 <li key={scenario.id} className="flex flex-wrap items-center justify-between gap-3 py-2" data-testid="home-awaiting" data-scenario={scenario.id}>
                   <span className="flex flex-col">
-                    <Link href={`/scenarios/${scenario.id}`} className="text-shallows underline underline-offset-2 hover:text-river">
+                    <Link href={`/scenarios/${scenario.id}`} className={textLinkClass}>
                       {scenario.name}
                     </Link>
                     <span className="text-xs text-slate-600">on {scenario.fitName}{scenario.ownerName ? ` · ${scenario.ownerName}` : ""}</span>
@@ -143,7 +144,7 @@ export default async function HomePage() {
                 <ul className="flex flex-col divide-y divide-slate-100 text-sm">
                   {approvedFits.slice(0, 5).map((fit) => (
                     <li key={fit.id} className="flex flex-wrap justify-between gap-2 py-1.5">
-                      <Link href={`/fits/${fit.id}`} className="text-shallows underline underline-offset-2 hover:text-river">
+                      <Link href={`/fits/${fit.id}`} className={textLinkClass}>
                         {fit.name}
                       </Link>
                       {fit.approvedAt ? <span className="num text-slate-600">approved {day.format(new Date(fit.approvedAt))}</span> : null}
@@ -164,7 +165,7 @@ export default async function HomePage() {
                   {scenarios.slice(0, 5).map((scenario) => (
                     <li key={scenario.id} className="flex justify-between gap-3 py-2" data-testid="home-scenario" data-scenario={scenario.id}>
                       <span className="flex min-w-0 flex-col items-start gap-1">
-                        <Link href={`/scenarios/${scenario.id}`} className="text-shallows underline underline-offset-2 hover:text-river">
+                        <Link href={`/scenarios/${scenario.id}`} className={textLinkClass}>
                           {scenario.name}
                         </Link>
                         <span className="text-xs text-slate-600">on {scenario.fitName}{scenario.ownerName ? ` · ${scenario.ownerName}` : ""}</span>

@@ -4,7 +4,7 @@ import { useRouter } from "next/navigation";
 import { useId, useMemo, useRef, useState, useTransition } from "react";
 import type { CommentDto } from "@/server/comments/store";
 import { findMentions, mentionHandle, type Mentionable } from "@/server/comments/mentions";
-import { buttonClass } from "@/ui/button-class";
+import { buttonClass, textLinkClass } from "@/ui/button-class";
 import { problemText, reviewApi } from "./api";
 import { dateText } from "./format";
 
@@ -158,7 +158,7 @@ function CommentItem({ node, depth, props }: { node: Node; depth: number; props:
         </p>
         <Body text={node.body} mentions={node.mentions} />
         {props.canComment && !replying ? (
-          <button type="button" onClick={() => setReplying(true)} className="text-xs font-medium text-shallows underline underline-offset-2 hover:text-river print:hidden">
+          <button type="button" onClick={() => setReplying(true)} className={`text-xs font-medium ${textLinkClass} print:hidden`}>
             Reply
           </button>
         ) : null}

@@ -7,7 +7,7 @@ import type { CommentDto } from "@/server/comments/store";
 import type { Mentionable } from "@/server/comments/mentions";
 import type { ComparisonDto } from "@/server/comparisons/types";
 import type { MoneyLocale } from "@/server/planning/allocation";
-import { buttonClass } from "@/ui/button-class";
+import { buttonClass, textLinkClass } from "@/ui/button-class";
 import { cautionText } from "@/ui/scenario/cautions";
 import { problemText, reviewApi } from "./api";
 import { CommentThread } from "./comment-thread";
@@ -110,7 +110,7 @@ export function ComparisonScreen({ comparison, money, comments, members, finance
       <div className="flex flex-wrap items-end justify-between gap-4">
         <div>
           <p className="text-sm text-slate-600 print:hidden">
-            <Link href="/compare" className="text-shallows underline underline-offset-2 hover:text-river">
+            <Link href="/compare" className={textLinkClass}>
               Side by side
             </Link>{" "}
             / {comparison.id ? "saved comparison" : "not saved"}

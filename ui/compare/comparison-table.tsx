@@ -5,6 +5,7 @@ import { IntervalRow, intervalDomain } from "@/ui/charts/interval-row";
 import { formatMoney } from "@/ui/scenario/format";
 import { dateText, levelText, outcomeText, signedOutcomeText } from "./format";
 import { SignoffBadge } from "./signoff-badge";
+import { textLinkClass } from "@/ui/button-class";
 
 const fitStatusWords: Record<string, string> = {
   approved: "approved",
@@ -215,7 +216,7 @@ export function ComparisonTable({ comparison, money }: { comparison: ComparisonD
             </th>
             {columns.map((column) => (
               <td key={column.position} className={td} data-testid="fit">
-                <Link href={`/fits/${column.fit.id}`} className="text-shallows underline underline-offset-2 hover:text-river">
+                <Link href={`/fits/${column.fit.id}`} className={textLinkClass}>
                   {column.fit.name}
                 </Link>{" "}
                 <span className="text-xs text-slate-600">({fitStatusWords[column.fit.status] ?? column.fit.status})</span>

@@ -13,6 +13,7 @@ import { dateText } from "./format";
 import { ShareForm, type FinanceMember } from "./share-form";
 import { SignoffBadge, SignoffSentence } from "./signoff-badge";
 import { SignoffForm } from "./signoff-form";
+import { textLinkClass } from "@/ui/button-class";
 
 export type ReviewVersion = {
   number: number;
@@ -138,7 +139,7 @@ export function ScenarioReview({ scenarioId, scenarioName, versions, comments, m
                 </td>
                 <td className="py-2 text-slate-700">{version.sharedWith.length > 0 ? version.sharedWith.join(", ") : "—"}</td>
                 <td className="py-2 text-right">
-                  <button type="button" onClick={() => setSelected(version.number)} aria-pressed={version.number === selected} className="text-sm font-medium text-shallows underline underline-offset-2 hover:text-river">
+                  <button type="button" onClick={() => setSelected(version.number)} aria-pressed={version.number === selected} className={`text-sm font-medium ${textLinkClass}`}>
                     Review v{version.number}
                   </button>
                 </td>

@@ -2,7 +2,7 @@
 
 import { useRouter } from "next/navigation";
 import { useId, useState, useTransition } from "react";
-import { buttonClass } from "@/ui/button-class";
+import { buttonClass, textLinkClass } from "@/ui/button-class";
 import { problemText, reviewApi } from "./api";
 
 /**
@@ -62,7 +62,7 @@ export function SignoffForm({
             {done}
           </p>
         ) : null}
-        <button type="button" onClick={() => setOpen(true)} className="text-sm font-medium text-shallows underline underline-offset-2 hover:text-river">
+        <button type="button" onClick={() => setOpen(true)} className={`text-sm font-medium ${textLinkClass}`}>
           Record another decision on version {version}
         </button>
       </div>

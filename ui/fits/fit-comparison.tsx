@@ -2,6 +2,7 @@ import Link from "next/link";
 import type { FitComparison, SummaryRow } from "@/server/fits/comparison";
 import { formatInUnit, formatNumber, formatPValue } from "./format";
 import { FitStatusBadge } from "./status";
+import { textLinkClass } from "@/ui/button-class";
 
 function summaryValue(row: SummaryRow, value: number | null, unit: string | null, locale: string): string {
   if (value === null) return "—";
@@ -27,7 +28,7 @@ export function FitComparisonSummary({ comparison, locale }: { comparison: FitCo
             <th className="py-1 pr-4 font-medium">Figure</th>
             {comparison.fits.map((fit) => (
               <th key={fit.id} className="py-1 pr-4 text-right align-bottom font-medium">
-                <Link href={`/fits/${fit.id}`} className="text-shallows underline underline-offset-2 hover:text-river">
+                <Link href={`/fits/${fit.id}`} className={textLinkClass}>
                   {fit.name}
                 </Link>
                 <span className="mt-1 block">

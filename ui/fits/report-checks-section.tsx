@@ -1,4 +1,5 @@
 import type { ReportCheck } from "./report-checks";
+import { textLinkClass } from "@/ui/button-class";
 
 const statusWords: Record<ReportCheck["status"], string> = { ok: "OK", look: "Look", unknown: "Not checked" };
 const statusStyles: Record<ReportCheck["status"], string> = {
@@ -23,7 +24,7 @@ export function ReportChecks({ checks }: { checks: ReportCheck[] }) {
               <span className="sr-only">:</span>
             </span>
             <span className="min-w-0 flex-1">
-              <a href={check.anchor} className="font-medium text-shallows underline underline-offset-2 hover:text-river">
+              <a href={check.anchor} className={`font-medium ${textLinkClass}`}>
                 {check.label}
               </a>
               : <span className="text-slate-800">{check.text}</span>

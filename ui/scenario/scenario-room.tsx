@@ -18,6 +18,7 @@ import { formatDateTime } from "./format";
 import { OutcomePanel } from "./outcome-panel";
 import { allocationFromPlan, planOf } from "./room-plan";
 import { useScenarioPrediction } from "./use-scenario-prediction";
+import { textLinkClass } from "@/ui/button-class";
 
 export { allocationFromPlan } from "./room-plan";
 
@@ -265,7 +266,7 @@ export function ScenarioRoom({ scenario, fit, initialVersion, initialOutcome, mo
               Reload versions, keep my changes
             </button>
             {conflict.latestVersion ? (
-              <button type="button" onClick={() => openVersion(conflict.latestVersion as number).then(() => reloadKeepingEdits())} className="text-shallows underline underline-offset-2 hover:text-river">
+              <button type="button" onClick={() => openVersion(conflict.latestVersion as number).then(() => reloadKeepingEdits())} className={textLinkClass}>
                 Open version {conflict.latestVersion} instead (drops my changes)
               </button>
             ) : null}

@@ -8,6 +8,7 @@ import type { VersionSummaryDto } from "@/server/scenarios/types";
 import type { FitRecord } from "@/server/stats";
 import { formatDateTime, formatMoney, formatOutcome } from "./format";
 import { VersionDiff } from "./version-diff";
+import { textLinkClass } from "@/ui/button-class";
 
 export interface VersionDrawerProps {
   open: boolean;
@@ -66,7 +67,7 @@ function Drawer({ open, onClose, scenarioId, versions, opened, canWrite, busy, o
         <h2 id={titleId} className="text-lg font-semibold text-river">
           Version history
         </h2>
-        <button type="button" onClick={onClose} className="rounded px-2 py-1 text-sm text-shallows underline underline-offset-2 hover:text-river">
+        <button type="button" onClick={onClose} className={`rounded px-2 py-1 text-sm ${textLinkClass}`}>
           Close
         </button>
       </div>
@@ -92,11 +93,11 @@ function Drawer({ open, onClose, scenarioId, versions, opened, canWrite, busy, o
               {version.note ? <p className="mt-1 text-sm italic text-slate-600">“{version.note}”</p> : null}
               {version.restoredFrom ? <p className="text-xs text-slate-600">Restored from v{version.restoredFrom}</p> : null}
               <div className="mt-2 flex gap-3 text-sm">
-                <button type="button" className="text-shallows underline underline-offset-2 hover:text-river" onClick={() => onOpenVersion(version.number)}>
+                <button type="button" className={textLinkClass} onClick={() => onOpenVersion(version.number)}>
                   Open v{version.number}
                 </button>
                 {canWrite && version.number !== latest ? (
-                  <button type="button" disabled={busy} className="text-shallows underline underline-offset-2 hover:text-river disabled:opacity-50" onClick={() => onRestore(version.number)}>
+                  <button type="button" disabled={busy} className={`${textLinkClass} disabled:opacity-50`} onClick={() => onRestore(version.number)}>
                     Restore v{version.number} as v{(latest ?? 0) + 1}
                   </button>
                 ) : null}

@@ -2,6 +2,7 @@ import type { Metadata } from "next";
 import { requirePageActor } from "@/server/authz";
 import { openApiDocument } from "@/server/api-docs/openapi";
 import { PageHeading, Section } from "@/ui/section";
+import { textLinkClass } from "@/ui/button-class";
 
 export const metadata: Metadata = { title: "API" };
 
@@ -98,7 +99,7 @@ export default async function ApiDocsPage() {
     <div className="flex flex-col gap-6">
       <PageHeading title="API">
         <Prose text={openApiDocument.info.description} />{" "}
-        <a href="/api/openapi" className="text-shallows underline underline-offset-2 hover:text-river">
+        <a href="/api/openapi" className={textLinkClass}>
           The OpenAPI 3.1 document (JSON)
         </a>
         .

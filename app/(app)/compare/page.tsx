@@ -10,6 +10,7 @@ import { dateText } from "@/ui/compare/format";
 import { SignoffBadge } from "@/ui/compare/signoff-badge";
 import { type PickableScenario, VersionPicker } from "@/ui/compare/version-picker";
 import { PageHeading, Section } from "@/ui/section";
+import { textLinkClass } from "@/ui/button-class";
 
 export const metadata: Metadata = { title: "Side by side" };
 
@@ -56,7 +57,7 @@ export default async function ComparePage() {
           <ul className="divide-y divide-slate-100" data-testid="shared-with-me">
             {shared.map((item) => (
               <li key={item.shareId} className="py-2">
-                <Link href={item.link} className="font-medium text-shallows underline underline-offset-2 hover:text-river">
+                <Link href={item.link} className={`font-medium ${textLinkClass}`}>
                   {item.title}
                 </Link>
                 <span className="ml-2 text-sm text-slate-600">
@@ -89,7 +90,7 @@ export default async function ComparePage() {
               {saved.map((comparison) => (
                 <tr key={comparison.id} className="border-t border-slate-100 align-top">
                   <td className="py-2">
-                    <Link href={`/compare/${comparison.id}`} className="font-medium text-shallows underline underline-offset-2 hover:text-river">
+                    <Link href={`/compare/${comparison.id}`} className={`font-medium ${textLinkClass}`}>
                       {comparison.name}
                     </Link>
                   </td>
@@ -136,7 +137,7 @@ export default async function ComparePage() {
               {overview.map((row) => (
                 <tr key={row.scenarioId} className="border-t border-slate-100" data-testid="signoff-overview-row" data-scenario={row.scenarioId}>
                   <td className="py-2">
-                    <Link href={`/scenarios/${row.scenarioId}#review`} className="font-medium text-shallows underline underline-offset-2 hover:text-river">
+                    <Link href={`/scenarios/${row.scenarioId}#review`} className={`font-medium ${textLinkClass}`}>
                       {row.scenarioName}
                     </Link>
                   </td>

@@ -3,7 +3,7 @@ import Link from "next/link";
 import { can, requirePageActor } from "@/server/authz";
 import { getPeopleByIds } from "@/server/datasets/details";
 import { listDatasetsByWorkspace } from "@/server/datasets/store";
-import { buttonClass } from "@/ui/button-class";
+import { buttonClass, textLinkClass } from "@/ui/button-class";
 import { formatBytes } from "@/ui/datasets/format";
 import { DatasetStatusBadge } from "@/ui/datasets/status";
 import { formatDateTime } from "@/ui/fits/format";
@@ -53,7 +53,7 @@ export default async function SpendHistoriesPage() {
                 {datasets.map((d) => (
                   <tr key={d.id} className="border-b border-slate-100">
                     <td className="py-2 pr-3">
-                      <Link href={`/datasets/${d.id}`} className="font-medium text-shallows underline underline-offset-2 hover:text-river">
+                      <Link href={`/datasets/${d.id}`} className={`font-medium ${textLinkClass}`}>
                         {d.name}
                       </Link>{" "}
                       <DatasetStatusBadge status={d.status} />

@@ -3,7 +3,7 @@ import Link from "next/link";
 import { can, requirePageActor } from "@/server/authz";
 import { listFitsByWorkspaceId } from "@/server/fits/store";
 import type { FitStatus, FitSummaryDto } from "@/server/fits/types";
-import { buttonClass } from "@/ui/button-class";
+import { buttonClass, textLinkClass } from "@/ui/button-class";
 import { formatDateTime, formatNumber } from "@/ui/fits/format";
 import { FitStatusBadge, fitStatusLabels, fitStatusOrder } from "@/ui/fits/status";
 import { PageHeading, Section } from "@/ui/section";
@@ -29,7 +29,7 @@ export default async function FitsPage() {
       <div className="flex flex-wrap items-start justify-between gap-4">
         <PageHeading title="Fits">
           Regressions of an outcome on spend channels and controls. Only approved fits reach planners. Scripts can do the same through{" "}
-          <Link href="/api-docs#api-fits" className="text-shallows underline underline-offset-2 hover:text-river">
+          <Link href="/api-docs#api-fits" className={textLinkClass}>
             the API
           </Link>
           .
@@ -84,7 +84,7 @@ export default async function FitsPage() {
                   {byStatus.get(status)!.map((fit) => (
                     <tr key={fit.id} className="border-b border-slate-100">
                       <td className="py-2 pr-3">
-                        <Link href={`/fits/${fit.id}`} className="font-medium text-shallows underline underline-offset-2 hover:text-river">
+                        <Link href={`/fits/${fit.id}`} className={`font-medium ${textLinkClass}`}>
                           {fit.name}
                         </Link>{" "}
                         <FitStatusBadge status={fit.status} />

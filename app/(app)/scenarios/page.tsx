@@ -3,7 +3,7 @@ import Link from "next/link";
 import { can, requirePageActor } from "@/server/authz";
 import { listApprovedFits, listScenariosByWorkspace } from "@/server/scenarios/store";
 import { listScenarioSignoffSummaries } from "@/server/signoffs/summary";
-import { buttonClass } from "@/ui/button-class";
+import { buttonClass, textLinkClass } from "@/ui/button-class";
 import { SignoffSummary } from "@/ui/compare/signoff-summary";
 import { PageHeading, Section } from "@/ui/section";
 
@@ -65,7 +65,7 @@ export default async function ScenariosPage({ searchParams }: { searchParams: Pr
                 return (
                   <tr key={scenario.id} className="border-t border-slate-100" data-testid="scenario-row" data-scenario={scenario.id}>
                     <td className="py-2 pr-4">
-                      <Link href={`/scenarios/${scenario.id}`} className="font-medium text-shallows underline underline-offset-2 hover:text-river">
+                      <Link href={`/scenarios/${scenario.id}`} className={`font-medium ${textLinkClass}`}>
                         {scenario.name}
                       </Link>
                     </td>

@@ -6,6 +6,7 @@ import { listMembersByWorkspaceId } from "@/server/data/members";
 import { isLocalMailSink } from "@/server/mail/transport";
 import { PageHeading, RoleBadge, Section } from "@/ui/section";
 import { InviteForm, MemberRow, RevokeInvitationButton, WorkspaceForm } from "./settings-forms";
+import { textLinkClass } from "@/ui/button-class";
 
 export const metadata: Metadata = { title: "Settings" };
 
@@ -38,7 +39,7 @@ export default async function SettingsPage() {
           </dd>
         </dl>
         <p className="mt-4 text-sm">
-          <Link href="/settings/tokens" className="font-medium text-shallows underline underline-offset-2 hover:text-river">
+          <Link href="/settings/tokens" className={`font-medium ${textLinkClass}`}>
             API tokens
           </Link>{" "}
           — let scripts call Tributary&apos;s API with your roles.
@@ -98,7 +99,7 @@ export default async function SettingsPage() {
 
           {isLocalMailSink() && can(actor, "mail:outbox") ? (
             <Section id="outbox" title="Local mail outbox" description="This copy of Tributary sends e-mail to a local sink instead of delivering it.">
-              <Link href="/settings/outbox" className="text-sm font-medium text-shallows underline underline-offset-2 hover:text-river">
+              <Link href="/settings/outbox" className={`text-sm font-medium ${textLinkClass}`}>
                 Open the outbox
               </Link>
             </Section>

@@ -5,7 +5,7 @@ import { PASSWORD_MIN_LENGTH } from "@/server/auth/password";
 import { roleLabels } from "@/server/authz";
 import { getInvitationByToken } from "@/server/data/invitations";
 import { RoleBadge } from "@/ui/section";
-import { buttonClass } from "@/ui/button-class";
+import { buttonClass, textLinkClass } from "@/ui/button-class";
 import { signOutForInvitationAction } from "./actions";
 import { JoinForm, NewAccountForm } from "./invite-forms";
 
@@ -45,7 +45,7 @@ export default async function InvitationPage({ params }: { params: Promise<{ tok
       <Shell title={`Invitation to ${invitation.workspaceName}`}>
         <p role="alert" className="text-slate-700">{text}</p>
         <p className="mt-4 text-sm">
-          <Link href="/login" className="text-shallows underline underline-offset-2 hover:text-river">Go to sign-in</Link>
+          <Link href="/login" className={textLinkClass}>Go to sign-in</Link>
         </p>
       </Shell>
     );
@@ -94,7 +94,7 @@ export default async function InvitationPage({ params }: { params: Promise<{ tok
         <p className="text-slate-700">
           You already have a Tributary account as <strong>{invitation.email}</strong>.{" "}
           <Link
-            className="font-medium text-shallows underline underline-offset-2 hover:text-river"
+            className={`font-medium ${textLinkClass}`}
             href={`/login?${new URLSearchParams({ callbackUrl: `/invite/${token}`, email: invitation.email })}`}
           >
             Sign in as {invitation.email}

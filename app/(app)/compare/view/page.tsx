@@ -6,6 +6,7 @@ import { buildComparison } from "@/server/comparisons/compute";
 import { isAppError } from "@/server/errors";
 import { ComparisonScreen } from "@/ui/compare/comparison-screen";
 import { comparisonScreenProps } from "../_review/load";
+import { textLinkClass } from "@/ui/button-class";
 
 export const metadata: Metadata = { title: "Side by side" };
 
@@ -29,7 +30,7 @@ export default async function ComparisonPreviewPage({ searchParams }: { searchPa
           <p role="alert" className="rounded-md border-l-4 border-ember bg-white px-4 py-3 text-sm">
             {error.message}
           </p>
-          <Link href="/compare" className="text-shallows underline underline-offset-2 hover:text-river">
+          <Link href="/compare" className={textLinkClass}>
             Pick versions again
           </Link>
         </div>

@@ -7,7 +7,7 @@ import { can, requirePageActor } from "@/server/authz";
 import { getPeopleByIds, isFrozenByFit, listDatasetAudit, listFitsOfDataset } from "@/server/datasets/details";
 import { getCorrelationMatrix, getDatasetById, getDatasetRowsPage, loadDatasetFrame, type DatasetDto } from "@/server/datasets/store";
 import { describeAuditEvent } from "@/ui/audit-event";
-import { buttonClass } from "@/ui/button-class";
+import { buttonClass, textLinkClass } from "@/ui/button-class";
 import { CorrelationGrid, TimeSeriesChart } from "@/ui/charts";
 import { ColumnProfile } from "@/ui/datasets/column-profile";
 import { formatBytes } from "@/ui/datasets/format";
@@ -165,7 +165,7 @@ export default async function SpendHistoryPage({ params, searchParams }: Props) 
           <ul className="flex flex-col gap-1 text-sm">
             {fits.map((fit) => (
               <li key={fit.id} className="flex flex-wrap items-center gap-2">
-                <Link href={`/fits/${fit.id}`} className="font-medium text-shallows underline underline-offset-2 hover:text-river">
+                <Link href={`/fits/${fit.id}`} className={`font-medium ${textLinkClass}`}>
                   {fit.name}
                 </Link>
                 <FitStatusBadge status={fit.status as FitStatus} />

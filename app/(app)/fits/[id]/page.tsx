@@ -5,7 +5,7 @@ import { z } from "zod";
 import { can, requirePageActor } from "@/server/authz";
 import { getFitById, listFitTrail } from "@/server/fits/store";
 import { availableFitActions } from "@/server/fits/workflow";
-import { buttonClass } from "@/ui/button-class";
+import { buttonClass, textLinkClass } from "@/ui/button-class";
 import { CoefficientTable } from "@/ui/fits/coefficient-table";
 import { CollinearitySection } from "@/ui/fits/collinearity-section";
 import { DiagnosticsSection } from "@/ui/fits/diagnostics-section";
@@ -51,7 +51,7 @@ export default async function FitReportPage({ params }: Props) {
           <p className="mt-1 text-sm text-slate-700">
             <span className="font-mono">{report.outcome}</span> on {report.coefficients.length - (report.intercept ? 1 : 0)} terms
             {report.intercept ? " with an intercept" : ", no intercept"} · {report.n.toLocaleString(locale)} rows of{" "}
-            <Link href={`/datasets/${fit.datasetId}`} className="text-shallows underline underline-offset-2 hover:text-river">
+            <Link href={`/datasets/${fit.datasetId}`} className={textLinkClass}>
               {fit.datasetName ?? "the spend history"}
             </Link>{" "}
             · built by {fit.authorName ?? "—"} on {formatDateTime(fit.createdAt, locale)}

@@ -7,7 +7,7 @@ import { AppError } from "@/server/errors";
 import { compareFits, loadFitsToCompare, MAX_COMPARED_FITS } from "@/server/fits/comparison";
 import { listFitsByWorkspaceId } from "@/server/fits/store";
 import type { FitDto } from "@/server/fits/types";
-import { buttonClass } from "@/ui/button-class";
+import { buttonClass, textLinkClass } from "@/ui/button-class";
 import { FitComparisonSummary, FitComparisonTerms } from "@/ui/fits/fit-comparison";
 import { formatDateTime } from "@/ui/fits/format";
 import { FitStatusBadge } from "@/ui/fits/status";
@@ -117,7 +117,7 @@ export default async function CompareFitsPage({ searchParams }: Props) {
             : "These fits differ in outcome or rows: AIC, BIC and errors do not compare across them, so none is marked best."}
         </p>
         <p className="mt-2 text-sm">
-          <Link href={`/fits/compare?choose=1&ids=${comparison.fits.map((fit) => fit.id).join(",")}`} className="text-shallows underline underline-offset-2 hover:text-river">
+          <Link href={`/fits/compare?choose=1&ids=${comparison.fits.map((fit) => fit.id).join(",")}`} className={textLinkClass}>
             Change the fits compared
           </Link>
         </p>

@@ -14,6 +14,7 @@ import { ReadOnlyBanner } from "@/ui/scenario/read-only-banner";
 import { allocationFromPlan, planOf } from "@/ui/scenario/room-plan";
 import { ScenarioRoom } from "@/ui/scenario/scenario-room";
 import { ScenarioReviewSection } from "../../compare/_review/scenario-review-section";
+import { textLinkClass } from "@/ui/button-class";
 
 export const metadata: Metadata = { title: "Scenario" };
 
@@ -40,7 +41,7 @@ export default async function ScenarioPage({ params }: { params: Promise<{ id: s
     <div className="space-y-4">
       <div>
         <p className="text-sm text-slate-600">
-          <Link href="/scenarios" className="text-shallows underline underline-offset-2 hover:text-river">
+          <Link href="/scenarios" className={textLinkClass}>
             Scenarios
           </Link>{" "}
           / on the fit <strong>{fit.name}</strong>
@@ -51,7 +52,7 @@ export default async function ScenarioPage({ params }: { params: Promise<{ id: s
             <span>Finance:</span>
             <SignoffSummary summary={signoff} />
             {signoff.latestVersion !== null ? (
-              <a href="#review" className="text-shallows underline underline-offset-2 hover:text-river">
+              <a href="#review" className={textLinkClass}>
                 Finance review
               </a>
             ) : null}

@@ -5,6 +5,7 @@ import { requirePageActor } from "@/server/authz";
 import { isLocalMailSink } from "@/server/mail/transport";
 import { listLocalMail } from "@/server/mail/outbox";
 import { PageHeading, Section } from "@/ui/section";
+import { textLinkClass } from "@/ui/button-class";
 
 export const metadata: Metadata = { title: "Local mail outbox" };
 
@@ -19,7 +20,7 @@ export default async function OutboxPage() {
       <PageHeading title="Local mail outbox">
         <p>
           This copy of Tributary delivers no e-mail: the local sink keeps every message here instead (newest first).{" "}
-          <Link href="/settings" className="text-shallows underline underline-offset-2 hover:text-river">Back to settings</Link>
+          <Link href="/settings" className={textLinkClass}>Back to settings</Link>
         </p>
       </PageHeading>
       <Section id="messages" title={`${messages.length} message${messages.length === 1 ? "" : "s"}`}>

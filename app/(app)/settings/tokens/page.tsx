@@ -4,6 +4,7 @@ import { requirePageActor } from "@/server/authz";
 import { listApiTokensByUser } from "@/server/data/api-tokens";
 import { PageHeading, Section } from "@/ui/section";
 import { CreateTokenForm, RevokeTokenButton } from "./token-forms";
+import { textLinkClass } from "@/ui/button-class";
 
 export const metadata: Metadata = { title: "API tokens" };
 
@@ -20,7 +21,7 @@ export default async function TokensPage() {
       <PageHeading title="API tokens">
         <p>
           Personal tokens let scripts (finance exports, reports) call Tributary&apos;s API as you, with your roles in {actor.workspaceName}.{" "}
-          <Link href="/settings" className="text-shallows underline underline-offset-2 hover:text-river">
+          <Link href="/settings" className={textLinkClass}>
             Back to settings
           </Link>
         </p>
