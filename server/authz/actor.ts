@@ -1,6 +1,7 @@
 import "server-only";
 import { cookies, headers } from "next/headers";
 import type { Role } from "@/db/schema";
+import type { Session } from "next-auth";
 import { auth } from "@/server/auth";
 import { AppError } from "@/server/errors";
 import { cached } from "@/server/authz/actor-cache";
@@ -92,7 +93,13 @@ async function actorFromToken(token: string | null): Promise<Actor> {
   };
 }
 
-async function currentWorkspaceSlug(request?: Request): Promise<string | undefined> {
+/** A request as authentication needs it: its headers (route handlers of either router pass them). */
+export type RequestHeadersLike = { headers: Headers };
+
+/** Reads the Auth.js session; the default (`auth()`) works in pages, server actions and App Router handlers. */
+export type SessionReader = () => Promise<Session | null>;
+
+async function currentWorkspaceSlug(request?: RequestHeadersLike): Promise<string | undefined> {
   if (request) {
     const cookie = request.headers.get("cookie") ?? "";
     const match = new RegExp(`(?:^|;\\s*)${WORKSPACE_COOKIE}=([^;]+)`).exec(cookie);
@@ -101,8 +108,8 @@ async function currentWorkspaceSlug(request?: Request): Promise<string | undefin
   return (await cookies()).get(WORKSPACE_COOKIE)?.value;
 }
 
-async function actorFromSession(request?: Request): Promise<Actor> {
-  const session = await auth();
+async function actorFromSession(request?: RequestHeadersLike, readSession: SessionReader = () => auth()): Promise<Actor> {
+  const session = await readSession();
   const userId = session?.user?.id;
   if (!userId) throw new AppError("unauthenticated");
   // Memberships are re-read (through a cache of a few seconds, cleared on every change) so that a
@@ -129,15 +136,15 @@ async function actorFromSession(request?: Request): Promise<Actor> {
  * @throws AppError "unauthenticated" (401) when neither identifies a user,
  *         "forbidden:no_workspace" (403) when the user belongs to no workspace.
  */
-export async function requireActor(request?: Request): Promise<Actor> {
+export async function requireActor(request?: RequestHeadersLike, readSession?: SessionReader): Promise<Actor> {
   const authorization = request ? request.headers.get("authorization") : (await headers()).get("authorization");
   const token = bearerToken(authorization);
   if (token !== undefined) return actorFromToken(token);
-  return actorFromSession(request);
+  return actorFromSession(request, readSession);
 }
 
 /** requireActor, or null when nobody is signed in (other failures still throw). */
-export async function getOptionalActor(request?: Request): Promise<Actor | null> {
+export async function getOptionalActor(request?: RequestHeadersLike): Promise<Actor | null> {
   try {
     return await requireActor(request);
   } catch (error) {
