@@ -8,6 +8,10 @@ const nextConfig: NextConfig = {
   // Uploads of spend histories can be large; route handlers stream them, server actions stay small.
   // authInterrupts: forbidden() in requirePageActor renders app/forbidden.tsx with status 403.
   experimental: { serverActions: { bodySizeLimit: "2mb" }, authInterrupts: true },
+  // The one Pages Router API route (pages/api/fits/[id]/predict.ts) is bundled like the App Router's
+  // code: otherwise its packages load unbundled from node_modules, where `server-only` refuses to load
+  // and next-auth's ESM cannot resolve "next/server".
+  bundlePagesRouterDependencies: true,
   serverExternalPackages: ["@node-rs/argon2", "pg-boss", "smtp-server", "pdfkit"],
   // Security headers (issue 8; tests/e2e/security.test.ts). Pages get their Content-Security-Policy with a
   // per-request nonce from proxy.ts; everything else (route handlers' JSON, files) gets a policy that

@@ -5,7 +5,8 @@ import { usePathname } from "next/navigation";
 export type NavItem = { href: string; label: string };
 
 export function NavLinks({ items }: { items: NavItem[] }) {
-  const pathname = usePathname();
+  // Typed nullable since the app also has a Pages Router API route; never null on App Router pages.
+  const pathname = usePathname() ?? "";
   return (
     <ul className="flex flex-wrap gap-1">
       {items.map((item) => {

@@ -1,9 +1,9 @@
-// The authorization matrix: EVERY route handler under app/api × every demo role (Bearer tokens) ×
+// The authorization matrix: EVERY API route (app/api and pages/api) × every demo role (Bearer tokens) ×
 // no credentials (401) × another workspace's caller on this workspace's objects (404).
 //
 // Adding a route? Add one line to `routes` below: who may call it, the status an allowed caller gets,
 // and (if it needs one) the path of a real object and a body. The first test fails while any route
-// file under app/api has a method missing here.
+// file under app/api or pages/api has a method missing here.
 import type postgres from "postgres";
 import { afterAll, beforeAll, describe, expect, test } from "vitest";
 import type { Role } from "@/db/schema/workspaces";
@@ -175,7 +175,7 @@ const routes: RouteCase[] = [
   { method: "DELETE", route: "/api/workspace/members/[userId]", who: ["admin"], ok: 204, path: async (fx) => `/api/workspace/members/${await fx.newMemberId()}` },
 ];
 
-// --- discovery: every app/api/**/route.ts and the methods it exports --------------------------------
+// --- discovery: tests/e2e/support/routes.ts (route handlers under app/api, API routes under pages/api) ---
 
 
 
@@ -300,7 +300,7 @@ async function call(entry: RouteCase, caller: Caller | null) {
 
 // --- the matrix ---------------------------------------------------------------------------------------
 
-test("every route handler under app/api has a line in the matrix", () => {
+test("every API route (app/api and pages/api) has a line in the matrix", () => {
   const listed = routes.map((entry) => `${entry.method} ${entry.route}`).sort();
   const onDisk = discoverRoutes();
   expect(onDisk.filter((route) => !listed.includes(route)), "route handlers missing from the authz matrix").toEqual([]);

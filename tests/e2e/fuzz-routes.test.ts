@@ -1,5 +1,5 @@
 // Property-based fuzzing (fast-check) of every JSON route handler that changes data (POST/PUT/PATCH/DELETE
-// under app/api, found on disk like the authorization matrix does), through HTTP against the running app,
+// under app/api and pages/api, found on disk like the authorization matrix does), through HTTP against the running app,
 // as a Larkspur member holding every role (Bearer token), so each request gets past 401/403 to the body.
 // Bodies: random JSON of every top-level type, malformed and truncated JSON, one field of a valid body
 // replaced by a value of another type, deep nesting (arrays and objects, 1,000 to 100,000 levels, whole
@@ -18,12 +18,11 @@
 // default 50) keep the whole file well under two minutes (about 10–40 s on these machines).
 import { readFileSync } from "node:fs";
 import { request as httpRequest } from "node:http";
-import path from "node:path";
 import fc from "fast-check";
 import type postgres from "postgres";
 import { afterAll, beforeAll, describe, expect, test } from "vitest";
 import { url } from "./support/env";
-import { discoverRoutes } from "./support/routes";
+import { discoverRoutes, routeSourceFile } from "./support/routes";
 import { api, createTokenFor, testDatabase } from "./support/sign-in";
 
 const SEED = Number(process.env.FUZZ_SEED ?? 20261201);
@@ -149,7 +148,7 @@ const discoverMutations = () => discoverRoutes(["POST", "PUT", "PATCH", "DELETE"
 
 /** The route's body limit: its `maxBodyBytes`, else the wrapper's default (1 MB). */
 function bodyLimit(route: string): number {
-  const source = readFileSync(path.join("app", route.replace(/^\//, ""), "route.ts"), "utf8");
+  const source = readFileSync(routeSourceFile(route), "utf8");
   const match = /maxBodyBytes:\s*([\d_]+)/.exec(source);
   return match ? Number(match[1].replaceAll("_", "")) : 1_000_000;
 }
@@ -401,7 +400,7 @@ function bodies(entry: Entry): fc.Arbitrary<Sent> {
 
 // --- the properties -----------------------------------------------------------------------------------
 
-test("every data-changing route handler under app/api is fuzzed here (or named as not JSON)", () => {
+test("every data-changing API route (app/api, pages/api) is fuzzed here (or named as not JSON)", () => {
   const listed = [...routes.map((e) => `${e.method} ${e.route}`), ...notJson].sort();
   expect(discoverMutations().filter((route) => !listed.includes(route)), "routes missing from the fuzz table").toEqual([]);
   expect(listed.filter((route) => !discoverMutations().includes(route)), "fuzz lines for routes that no longer exist").toEqual([]);

@@ -25,6 +25,7 @@ import { afterAll, beforeAll, describe, expect, test } from "vitest";
 import { launch, openPage } from "./support/browser";
 import { e2e, url } from "./support/env";
 import { createTokenFor, demoAccountFor, signInAs, testDatabase } from "./support/sign-in";
+import { demoChannels, demoControl } from "@/seed/history";
 
 let sql: postgres.Sql;
 let browser: Browser;
@@ -244,6 +245,35 @@ describe("same-origin check on cookie-authenticated mutations", () => {
       body: JSON.stringify({ name: "security test via bearer" }),
     });
     expect(bearer.status).toBe(201);
+  });
+
+  // The prediction route is the one Pages Router API route (server/http/pages-route.ts): the same
+  // session reading and same-origin rule as the route handlers, and it never re-issues the session cookie.
+  test("the prediction route with the session cookie: answers from our origin, 403 cross-site, 401 without it, no Set-Cookie", async () => {
+    const cookie = await sessionCookie();
+    const [fit] = await sql<{ id: string }[]>`
+      select f.id from fits f join workspaces w on w.id = f.workspace_id
+      where w.slug = 'larkspur' and f.status = 'approved' order by f.approved_at limit 1`;
+    const allocation = Object.fromEntries(demoChannels.map((channel) => [channel.column, 50_000]));
+    const predict = (headers: Record<string, string>) =>
+      fetch(url(`/api/fits/${fit.id}/predict`), {
+        method: "POST",
+        headers: { "content-type": "application/json", ...headers },
+        body: JSON.stringify({ allocation, controls: { [demoControl.column]: 2 }, horizon: 13 }),
+        redirect: "manual",
+      });
+
+    const ours = await predict({ cookie, origin, "sec-fetch-site": "same-origin" });
+    expect(ours.status, await ours.clone().text()).toBe(200);
+    expect(((await ours.json()) as { horizonTotal: { mean: number } }).horizonTotal.mean).toBeGreaterThan(0);
+    expect(ours.headers.get("set-cookie")).toBeNull();
+    expect(ours.headers.get("content-security-policy")).toContain("default-src 'none'");
+
+    const evil = await predict({ cookie, origin: "https://evil.example" });
+    expect(evil.status).toBe(403);
+    expect(await evil.json()).toEqual({ error: "Cross-site requests may not change data.", details: [] });
+    expect((await predict({ origin })).status).toBe(401);
+    expect((await predict({ cookie: "authjs.session-token=forged", origin })).status).toBe(401);
   });
 
   test("a server action posted with another Origin is refused by Next and does not run (the same post from our origin does)", async () => {

@@ -63,7 +63,7 @@ function useLatestVersionWatch(scenarioId: string, latest: number | null) {
 export function ScenarioReview({ scenarioId, scenarioName, versions, comments, members, financeMembers, currentUserId, money, can }: ScenarioReviewProps) {
   const params = useSearchParams();
   const latest = versions.at(-1) ?? null;
-  const requested = Number(params.get("version"));
+  const requested = Number(params?.get("version")); // nullable in the types only (see nav-links.tsx)
   const [selected, setSelected] = useState<number | null>(versions.some((version) => version.number === requested) ? requested : (latest?.number ?? null));
   useLatestVersionWatch(scenarioId, latest?.number ?? null);
   // Follow a newly saved version when the reviewer was looking at the latest one.

@@ -4,13 +4,14 @@
 import jStatModule from "jstat";
 import { Matrix, inverse } from "ml-matrix";
 import { afterAll, beforeAll, describe, expect, it, vi } from "vitest";
-import { POST as predict } from "@/app/api/fits/[id]/predict/route";
+import predictRoute from "@/pages/api/fits/[id]/predict";
+import { callPagesRoute } from "@/tests/support/pages-route";
 import { getDatabase } from "@/db/client";
 import { demoChannels, demoControl, demoOutcome } from "@/seed/history";
 import { invalidateFitCache, HEAD_TTL_MS } from "@/server/predict/fit-cache";
 import { describePlanShape } from "@/server/predict/plan-shape";
 import { scenarioOutcome, type ScenarioOutcome } from "@/server/predict/scenario-outcome";
-import { apiRequest, makePlanningWorkspace, routeContext } from "./support/workspace";
+import { apiRequest, makePlanningWorkspace } from "./support/workspace";
 
 const { jStat } = jStatModule;
 const channels = demoChannels.map((channel) => channel.column);
@@ -26,7 +27,7 @@ beforeAll(async () => {
 afterAll(() => vi.restoreAllMocks());
 
 async function callPredict(fitId: string, body: unknown, token = setup.members.planner.token): Promise<{ status: number; body: ScenarioOutcome & { error?: string; details?: { path: string }[] } }> {
-  const response = await predict(apiRequest(`/api/fits/${fitId}/predict`, { method: "POST", token, json: body }), routeContext({ id: fitId }));
+  const response = await callPagesRoute(predictRoute, apiRequest(`/api/fits/${fitId}/predict`, { method: "POST", token, json: body }), { id: fitId });
   return { status: response.status, body: await response.json() };
 }
 

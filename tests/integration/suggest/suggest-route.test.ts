@@ -4,9 +4,10 @@
 // and never below the current plan's when the current plan keeps the same rules; infeasible or invalid
 // input is 422 with a detail naming the field; not approved 409; another workspace 404; finance 403.
 import { afterAll, beforeAll, describe, expect, it, vi } from "vitest";
-import { POST as predict } from "@/app/api/fits/[id]/predict/route";
+import predictRoute from "@/pages/api/fits/[id]/predict";
 import type { SuggestResponse } from "@/app/api/fits/[id]/suggest/schema";
 import { POST as suggest } from "@/app/api/fits/[id]/suggest/route";
+import { callPagesRoute } from "@/tests/support/pages-route";
 import { getDatabase } from "@/db/client";
 import { demoChannels, demoControl } from "@/seed/history";
 import type { ScenarioOutcome } from "@/server/predict/scenario-outcome";
@@ -34,7 +35,7 @@ async function callSuggest(fitId: string, body: unknown, token = setup.members.p
 }
 
 async function callPredict(fitId: string, body: unknown): Promise<ScenarioOutcome> {
-  const response = await predict(apiRequest(`/api/fits/${fitId}/predict`, { method: "POST", token: setup.members.planner.token, json: body }), routeContext({ id: fitId }));
+  const response = await callPagesRoute(predictRoute, apiRequest(`/api/fits/${fitId}/predict`, { method: "POST", token: setup.members.planner.token, json: body }), { id: fitId });
   expect(response.status).toBe(200);
   return response.json();
 }
