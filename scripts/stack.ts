@@ -1,5 +1,5 @@
 // The pieces `npm start` and `npm test` share: the process table, database preparation and the build check.
-import { existsSync, readdirSync, statSync, utimesSync } from "node:fs";
+import { existsSync, readdirSync, rmSync, statSync, utimesSync } from "node:fs";
 import path from "node:path";
 import postgres from "postgres";
 import type { Env } from "./env";
@@ -136,7 +136,7 @@ export function postgresReady(port: number): () => Promise<boolean> {
 
 /** What the production build depends on (directories are walked; their own mtimes catch deletions). */
 const BUILD_INPUTS = [
-  "app", "server", "db", "ui", "lib", "public", "types", "proxy.ts", "middleware.ts", "instrumentation.ts",
+  "app", "pages", "server", "db", "ui", "lib", "public", "types", "proxy.ts", "middleware.ts", "instrumentation.ts",
   "package.json", "package-lock.json", "next.config.ts", "tsconfig.json", "postcss.config.mjs",
   "tailwind.config.ts", ".env",
 ];
@@ -171,6 +171,20 @@ function newestInput(since: number): string | null {
   return null;
 }
 
+/** Every build folder: `npm start`'s, `npm test`'s and the benchmarks' (tsconfig.json includes the types of each). */
+const DIST_DIRS = [".next", ".next-test", ".data-bench/next"];
+
+/**
+ * The route types another build folder generated are type-checked by this build too (tsconfig.json
+ * includes them); after a route moves or goes they name a file that no longer exists and fail it.
+ * Each build writes its own again, so the others' are removed first.
+ */
+function removeOtherBuildsRouteTypes(distDir: string): void {
+  for (const other of DIST_DIRS) {
+    if (path.resolve(other) !== path.resolve(distDir)) rmSync(path.join(other, "types"), { recursive: true, force: true });
+  }
+}
+
 /** `next build` into env.NEXT_DIST_DIR when needed; the BUILD_ID gets the build's start time. */
 export async function buildIfNeeded(supervisor: Supervisor, stack: Stack): Promise<void> {
   const distDir = stack.env.NEXT_DIST_DIR || ".next";
@@ -181,6 +195,7 @@ export async function buildIfNeeded(supervisor: Supervisor, stack: Stack): Promi
   }
   supervisor.say(`building the app (${reason}); log: ${supervisor.logFile("build")}`);
   const startedAt = new Date();
+  removeOtherBuildsRouteTypes(distDir);
   await step(supervisor, { name: "build", command: NODE, args: ["node_modules/next/dist/bin/next", "build"], env: stack.env });
   utimesSync(path.join(distDir, "BUILD_ID"), startedAt, startedAt);
 }
