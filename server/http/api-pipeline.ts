@@ -39,6 +39,9 @@ export type ApiCoreContext<B, Q, P, A extends boolean | undefined> = {
   params: P extends z.ZodType ? z.output<P> : Record<string, string | string[] | undefined>;
 };
 
+/** A route's own code: return a Response, or any value to send as JSON with status 200. */
+export type ApiHandler<Ctx> = (context: Ctx) => Promise<Response | object | null> | Response | object | null;
+
 /** One incoming request as the pipeline needs it, whatever the router hands over. */
 export type ApiInput = {
   method: string;

@@ -8,6 +8,7 @@ import {
   BodyCollector,
   runApiPipeline,
   type ApiCoreContext,
+  type ApiHandler,
   type ApiOutcome,
   type ApiRouteOptions,
   type Schema,
@@ -18,8 +19,6 @@ import {
 // a web Request and stream made from them. For the prediction route, called on every slider move,
 // that difference is a third of its throughput (DEVELOPERS.md, "Predict route"); every other route
 // stays an App Router route handler.
-
-type Handler<Ctx> = (context: Ctx) => Promise<Response | object | null> | Response | object | null;
 
 /** What Next's Pages Router passes: Node's request with `query` (path parameters win over the query string). */
 type PagesRequest = IncomingMessage & { query?: Record<string, string | string[] | undefined> };
@@ -108,7 +107,7 @@ export function pagesApiRoute<
 >(
   method: "GET" | "POST" | "PUT" | "PATCH" | "DELETE",
   options: ApiRouteOptions<B, Q, P> & { auth?: A },
-  handler: Handler<ApiCoreContext<B, Q, P, A>>,
+  handler: ApiHandler<ApiCoreContext<B, Q, P, A>>,
 ): PagesApiHandler {
   const allow = `${method}, OPTIONS`;
   return async (request, response) => {

@@ -6,6 +6,7 @@ import {
   decodeUtf8,
   runApiPipeline,
   type ApiCoreContext,
+  type ApiHandler,
   type ApiOutcome,
   type ApiRouteOptions,
   type Schema,
@@ -17,8 +18,6 @@ export { DEFAULT_MAX_BODY_BYTES, zodDetails, type ApiRouteOptions } from "@/serv
 type RouteContext = { params: Promise<Record<string, string | string[] | undefined>> };
 
 export type ApiRouteContext<B, Q, P, A extends boolean | undefined> = ApiCoreContext<B, Q, P, A> & { request: Request };
-
-type Handler<Ctx> = (context: Ctx) => Promise<Response | object | null> | Response | object | null;
 
 /** A JSON response with a status, e.g. `return json(created, 201)`. */
 export function json(data: unknown, status = 200, headers?: HeadersInit): Response {
@@ -76,7 +75,7 @@ export function apiRoute<
   A extends boolean | undefined = undefined,
 >(
   options: ApiRouteOptions<B, Q, P> & { auth?: A },
-  handler: Handler<ApiRouteContext<B, Q, P, A>>,
+  handler: ApiHandler<ApiRouteContext<B, Q, P, A>>,
 ): (request: Request, context: RouteContext) => Promise<Response> {
   return async (request, context) => {
     const url = new URL(request.url);
