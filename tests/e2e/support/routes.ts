@@ -36,10 +36,13 @@ function discoverPagesApiRoutes(methods: readonly string[], dir: string): string
     const full = path.join(dir, entry.name);
     if (entry.isDirectory()) found.push(...discoverPagesApiRoutes(methods, full));
     else if (entry.name.endsWith(".ts")) {
-      const method = /pagesApiRoute\(\s*"([A-Z]+)"/.exec(readFileSync(full, "utf8"))?.[1];
+      const source = readFileSync(full, "utf8");
+      const method = /pagesApiRoute\(\s*"([A-Z]+)"/.exec(source)?.[1];
       const route = "/" + full.slice(0, -".ts".length).split(path.sep).join("/").replace(/^pages\//, "").replace(/\/index$/, "");
-      // A file under pages/api that is not a pagesApiRoute would skip the shared checks: list it so the matrix fails.
-      if (!method) found.push(`UNCHECKED ${route}`);
+      // A file under pages/api that is not a pagesApiRoute skips the shared checks, and one with Next's
+      // body parser on leaves pagesApiRoute no body to read: list either so the matrix fails, naming it.
+      if (!method) found.push(`NOT A pagesApiRoute ${route}`);
+      else if (!/bodyParser:\s*false/.test(source)) found.push(`BODY PARSER ON ${route}`);
       else if (methods.includes(method)) found.push(`${method} ${route}`);
     }
   }
