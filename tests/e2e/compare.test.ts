@@ -10,6 +10,7 @@
 import type { Browser, Page } from "playwright-core";
 import type postgres from "postgres";
 import { afterAll, beforeAll, describe, expect, test } from "vitest";
+import { demoGrowthScenarioName } from "@/seed/demo-names";
 import { launch, openPage, type TestPage } from "./support/browser";
 import { linksIn, waitForMail } from "./support/mail";
 import { api, createTokenFor, demoAccountFor, signInAs, testDatabase } from "./support/sign-in";
@@ -79,6 +80,10 @@ describe("side by side with finance", () => {
     await signInAs(page, "planner");
     await page.getByRole("navigation", { name: "Main" }).getByRole("link", { name: "Side by side" }).click();
     await page.waitForURL((url) => url.pathname === "/compare");
+    // The seed's growing-total plan takes e-mail past its range: the picker says so in words, not colour alone.
+    const warned = page.getByRole("checkbox", { name: `${demoGrowthScenarioName} version 1, has extrapolation warnings`, exact: true });
+    await warned.waitFor();
+    expect(await page.locator("label", { has: warned }).textContent()).toContain("has warnings");
     await page.getByRole("checkbox", { name: `${scenarioName} version 1` }).check();
     await page.getByRole("checkbox", { name: `${scenarioName} version 2` }).check();
     await page.getByRole("button", { name: "Show side by side" }).click();

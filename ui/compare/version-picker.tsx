@@ -67,10 +67,11 @@ export function VersionPicker({ scenarios, money }: { scenarios: PickableScenari
                       className={`flex cursor-pointer items-center gap-2 rounded-md border px-2 py-1 text-sm ${checked ? "border-river bg-shallows-pale" : "border-slate-300 bg-white"} ${version.warned ? "border-l-4 border-l-ember" : ""} ${disabled ? "opacity-50" : ""}`}
                       title={`${version.note || "No note"} · saved ${dateText(version.createdAt, money.locale)}${version.warned ? " · carries extrapolation warnings" : ""}`}
                     >
-                      <input type="checkbox" checked={checked} disabled={disabled} onChange={(event) => toggle(scenario, version.number, event.currentTarget.checked)} aria-label={`${scenario.name} version ${version.number}`} />
+                      <input type="checkbox" checked={checked} disabled={disabled} onChange={(event) => toggle(scenario, version.number, event.currentTarget.checked)} aria-label={`${scenario.name} version ${version.number}${version.warned ? ", has extrapolation warnings" : ""}`} />
                       <span className="num">
                         v{version.number} · {formatMoney(version.total, money)}
                       </span>
+                      {version.warned ? <span className="text-xs text-[#9f3f2c]">has warnings</span> : null}
                       <SignoffBadge signoff={version.decision} locale={money.locale} />
                     </label>
                   </li>
