@@ -17,8 +17,8 @@ import {
 // The same pipeline as apiRoute (server/http/route.ts), for a route in pages/api: Next's Pages Router
 // hands API routes Node's request and response as they are, where an App Router route handler gets
 // a web Request and stream made from them. For the prediction route, called on every slider move,
-// that difference is a third of its throughput (DEVELOPERS.md, "Predict route"); every other route
-// stays an App Router route handler.
+// that difference was 40% of its throughput (DEVELOPERS.md, "Predictions through the route"); every
+// other route stays an App Router route handler.
 
 /** What Next's Pages Router passes: Node's request with `query` (path parameters win over the query string). */
 type PagesRequest = IncomingMessage & { query?: Record<string, string | string[] | undefined> };
