@@ -44,6 +44,15 @@ export function describeAuditEvent(event: Pick<AuditEventDto, "action" | "detail
       return `uploaded the spend history “${str(d.name)}” (${typeof d.rows === "number" ? d.rows.toLocaleString("en") : "?"} rows, ${str(d.filename)})`;
     case "dataset.roles_assigned":
       return `chose the column roles of “${str(d.name)}” (outcome ${str(d.outcome) || "—"}, ${Array.isArray(d.spend) ? d.spend.length : 0} spend channels${typeof d.droppedRows === "number" && d.droppedRows > 0 ? `, ${d.droppedRows} incomplete rows left out` : ""})`;
+    case "scenario.created":
+      return `started the scenario “${str(d.name)}”`;
+    case "scenario.version_saved": {
+      // Entries from before the name was recorded say "a scenario".
+      const scenario = str(d.name) ? `“${str(d.name)}”` : "a scenario";
+      const restored = typeof d.restoredFrom === "number" ? `, restored from version ${d.restoredFrom}` : "";
+      const warned = Array.isArray(d.warnings) && d.warnings.length > 0 ? " (with extrapolation warnings)" : "";
+      return `saved version ${String(d.number ?? "?")} of ${scenario}${restored}${warned}`;
+    }
     case "comparison.created":
       return `saved the comparison “${str(d.name)}”`;
     case "share.created":

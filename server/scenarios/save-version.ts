@@ -211,7 +211,7 @@ export async function saveScenarioVersion(actor: Actor, scenarioId: string, inpu
           action: "scenario.version_saved",
           objectType: "scenario",
           objectId: scenarioId,
-          details: { number, restoredFrom: input.restoreFrom ?? null, warnings: prediction.warnings.map((warning) => warning.kind) },
+          details: { name: head.name, number, restoredFrom: input.restoreFrom ?? null, warnings: prediction.warnings.map((warning) => warning.kind) },
         },
         tx,
       );

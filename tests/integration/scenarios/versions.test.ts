@@ -7,6 +7,8 @@ import { GET as getScenario } from "@/app/api/scenarios/[id]/route";
 import { GET as listVersions, POST as saveVersion } from "@/app/api/scenarios/[id]/versions/route";
 import { GET as getVersion } from "@/app/api/scenarios/[id]/versions/[n]/route";
 import { getDatabase } from "@/db/client";
+import { listAuditEventsByWorkspaceId } from "@/server/data/audit";
+import { describeAuditEvent } from "@/ui/audit-event";
 import { demoChannels } from "@/seed/history";
 import { amountToCents } from "@/server/planning/allocation";
 import { describePlanShape } from "@/server/predict/plan-shape";
@@ -211,6 +213,16 @@ describe("saving versions", () => {
     expect(restored.body).toMatchObject({ number: 3, basedOn: 2, restoredFrom: 1, note: "Restored version 1", allocation: v1.body.allocation, total: v1.body.total });
     expect(restored.body.prediction.horizonTotal).toEqual(v1.body.prediction.horizonTotal);
     expect((await save(scenario.id, { baseVersion: 3, restoreFrom: 9 })).status).toBe(422);
+
+    // The workspace's recent activity names the scenario and each version (home page).
+    const events = await listAuditEventsByWorkspaceId({ workspaceId: setup.workspace.id, limit: 200 });
+    const phrases = events.filter((event) => event.objectId === scenario.id).map((event) => describeAuditEvent(event));
+    expect(phrases).toEqual([
+      "saved version 3 of “Restore”, restored from version 1",
+      "saved version 2 of “Restore”",
+      "saved version 1 of “Restore”",
+      "started the scenario “Restore”",
+    ]);
   });
 
   it("growing mode stores its ceiling and the total within it", async () => {
