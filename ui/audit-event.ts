@@ -7,7 +7,7 @@ const list = (value: unknown) => (Array.isArray(value) ? value.map(String).join(
  * A short phrase for an audit entry ("invited ana@… as analyst"). Features add their actions here;
  * unknown actions fall back to the action name.
  */
-export function describeAuditEvent(event: Pick<AuditEventDto, "action" | "details" | "objectType">): string {
+export function describeAuditEvent(event: Pick<AuditEventDto, "action" | "details" | "objectType"> & { subjectName?: string | null }): string {
   const d = event.details ?? {};
   switch (event.action) {
     case "member.invited":
@@ -15,9 +15,9 @@ export function describeAuditEvent(event: Pick<AuditEventDto, "action" | "detail
     case "member.joined":
       return `joined as ${list(d.roles)}`;
     case "member.roles_changed":
-      return `changed a member's roles from ${list(d.before)} to ${list(d.after)}`;
+      return `changed ${event.subjectName ? `${event.subjectName}'s` : "a member's"} roles from ${list(d.before)} to ${list(d.after)}`;
     case "member.removed":
-      return "removed a member";
+      return `removed ${event.subjectName ?? "a member"} from the workspace`;
     case "invitation.revoked":
       return `withdrew the invitation to ${str(d.email)}`;
     case "api_token.created":

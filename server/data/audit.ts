@@ -1,5 +1,6 @@
 import "server-only";
-import { and, desc, eq, notInArray } from "drizzle-orm";
+import { and, desc, eq, notInArray, sql } from "drizzle-orm";
+import { alias } from "drizzle-orm/pg-core";
 import { db, type Database } from "@/db/client";
 import { auditLog, users } from "@/db/schema";
 
@@ -25,8 +26,12 @@ export type AuditEventDto = {
   objectId: string | null;
   actorName: string | null;
   actorEmail: string | null;
+  /** For entries about a person (objectType "user"): their name or e-mail, read now rather than stored. */
+  subjectName: string | null;
   details: Record<string, unknown>;
 };
+
+const subject = alias(users, "subject");
 
 /** Appends one entry; pass the transaction so the entry commits (or not) with the change it records. */
 export async function recordAudit(entry: AuditEntry, tx: DbExecutor = db): Promise<void> {
@@ -55,10 +60,12 @@ export async function listAuditEventsByWorkspaceId(input: {
       objectId: auditLog.objectId,
       actorName: users.name,
       actorEmail: users.email,
+      subjectName: sql<string | null>`coalesce(${subject.name}, ${subject.email})`,
       details: auditLog.details,
     })
     .from(auditLog)
     .leftJoin(users, eq(users.id, auditLog.actorUserId))
+    .leftJoin(subject, and(eq(auditLog.objectType, "user"), sql`${subject.id}::text = ${auditLog.objectId}`))
     .where(
       input.excludeObjectTypes?.length
         ? and(eq(auditLog.workspaceId, input.workspaceId), notInArray(auditLog.objectType, input.excludeObjectTypes))

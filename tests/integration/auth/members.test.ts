@@ -1,7 +1,9 @@
 import { and, desc, eq } from "drizzle-orm";
 import { describe, expect, it } from "vitest";
 import { auditLog, memberships } from "@/db/schema";
+import { listAuditEventsByWorkspaceId } from "@/server/data/audit";
 import { changeMemberRoles, listMembersByWorkspaceId, removeMember } from "@/server/data/members";
+import { describeAuditEvent } from "@/ui/audit-event";
 import { db, makeWorkspace } from "./helpers";
 
 describe("the last-admin rule", () => {
@@ -33,6 +35,13 @@ describe("the last-admin rule", () => {
     expect(entries.map((e) => e.action)).toEqual(["member.removed", "member.roles_changed"]);
     expect(entries[1].details).toEqual({ before: ["admin", "finance"], after: ["finance"] });
     expect(entries[1].actorUserId).toBe(members.boss.id);
+
+    // As the home page's recent activity reads them: the member is named (looked up now, not stored).
+    const events = await listAuditEventsByWorkspaceId({ workspaceId: workspace.id });
+    expect(events.map((event) => describeAuditEvent(event))).toEqual([
+      "removed ana from the workspace",
+      "changed deputy's roles from admin, finance to finance",
+    ]);
   });
 
   it("cannot be raced: two admins demoting each other at once leave exactly one admin", async () => {
