@@ -1,6 +1,7 @@
 "use client";
 
 import dynamic from "next/dynamic";
+import { useRouter } from "next/navigation";
 import { memo, useCallback, useEffect, useMemo, useRef, useState } from "react";
 import { type AllocationState, allocationPerHorizon, amountToCents, centsToAmount, formatCents, type MoneyLocale } from "@/server/planning/allocation";
 import type { PlanShape } from "@/server/predict/plan-shape";
@@ -103,6 +104,9 @@ export function ScenarioRoom({ scenario, fit, initialVersion, initialOutcome, mo
   );
   const [controls, setControls] = useState<Record<string, number>>(() => ({ ...(initialVersion ?? scenario.baseline).controls }));
   const [baseVersion, setBaseVersion] = useState(scenario.latestVersion ?? 0);
+  // After a save, the page's server parts (finance status in the header, the review) are read again;
+  // the room's own state lives in this component and its store, which a refresh keeps.
+  const router = useRouter();
   const [opened, setOpened] = useState<number | null>(initialVersion?.number ?? null);
   const [note, setNote] = useState("");
   const [busy, setBusy] = useState(false);
@@ -179,6 +183,7 @@ export function ScenarioRoom({ scenario, fit, initialVersion, initialOutcome, mo
       setConflict(null);
       fetchedVersions.current.set(saved.number, saved);
       await refreshVersions();
+      router.refresh();
       setMessage({ tone: "ok", text: `Saved as version ${saved.number}.${saved.warnings.length > 0 ? " It carries extrapolation warnings." : ""}` });
     } catch (error) {
       handleError(error);
@@ -195,6 +200,7 @@ export function ScenarioRoom({ scenario, fit, initialVersion, initialOutcome, mo
       setBaseVersion(saved.number);
       loadVersion(saved);
       await refreshVersions();
+      router.refresh();
       setMessage({ tone: "ok", text: `Version ${number} restored as version ${saved.number}.` });
     } catch (error) {
       handleError(error);
