@@ -246,6 +246,12 @@ describe("side by side with finance", () => {
     expect(await page.getByRole("slider", { name: "Search spend for the horizon" }).getAttribute("aria-disabled")).toBe("true");
     await drawer.getByRole("button", { name: "Close" }).click();
     expect(await page.getByTestId("response-curves").count()).toBe(1);
+    // The curves follow the opened version (after their short settle), not the latest one.
+    const openedSearch = Math.round(Number((await searchAmount.inputValue()).replace(/[^\d.]/g, "")) * 100);
+    expect(openedSearch).not.toBe(Math.round(Number(before.amount.replace(/[^\d.]/g, "")) * 100));
+    await expect
+      .poll(() => page.locator('[data-testid="response-curve"][data-curve-channel="search_eur"]').getAttribute("data-plan-cents"), { timeout: 10_000 })
+      .toBe(String(openedSearch));
     await finance.screenshot("compare-04c-finance-read-only-room");
     const versions = (await (await api(`/api/scenarios/${scenarioId}`, { token: financeToken })).json()) as Json;
     const latest = (await (await api(`/api/scenarios/${scenarioId}/versions/2`, { token: financeToken })).json()) as Json;

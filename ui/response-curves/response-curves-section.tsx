@@ -104,7 +104,7 @@ function ChannelCurve({ channel, record, shape, allocation, controls, money, uni
   const slope = curve.marginalReturn;
   const percent = formatPercent(slope.confidenceLevel, money.locale);
   return (
-    <figure data-testid="response-curve" data-curve-channel={channel} data-marginal={slope.value} className="space-y-1">
+    <figure data-testid="response-curve" data-curve-channel={channel} data-marginal={slope.value} data-plan-cents={curve.current.amountCents} className="space-y-1">
       <figcaption className="flex items-baseline justify-between gap-2">
         <span className="font-medium text-river">{curve.label}</span>
         <span className="num text-xs text-slate-600">plan {formatMoney(curve.current.amountCents / 100, money)}</span>
