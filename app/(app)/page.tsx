@@ -3,6 +3,7 @@ import type { Metadata } from "next";
 import { can, requirePageActor, roleDescriptions, roleLabels } from "@/server/authz";
 import { listAuditEventsByWorkspaceId } from "@/server/data/audit";
 import { listMembersByWorkspaceId } from "@/server/data/members";
+import { listFitsByWorkspaceId } from "@/server/fits/store";
 import { listApprovedFits, listScenariosByWorkspace } from "@/server/scenarios/store";
 import { listScenarioSignoffSummaries } from "@/server/signoffs/summary";
 import { SignoffSummary } from "@/ui/compare/signoff-summary";
@@ -14,13 +15,18 @@ export const metadata: Metadata = { title: "Home" };
 
 export default async function HomePage() {
   const actor = await requirePageActor("workspace:read");
-  const [events, members, approvedFits, scenarios, signoffs] = await Promise.all([
+  const [events, members, approvedFits, scenarios, signoffs, inReview] = await Promise.all([
     listAuditEventsByWorkspaceId({ workspaceId: actor.workspaceId, limit: 10, excludeObjectTypes: ["api_token"] }),
     listMembersByWorkspaceId(actor.workspaceId),
     can(actor, "fit:read") ? listApprovedFits(actor.workspaceId) : null,
     can(actor, "scenario:read") ? listScenariosByWorkspace({ workspaceId: actor.workspaceId }) : null,
     can(actor, "scenario:read") ? listScenarioSignoffSummaries(actor.workspaceId) : null,
+    can(actor, "fit:review") ? listFitsByWorkspaceId({ workspaceId: actor.workspaceId, statuses: ["in_review"] }) : null,
   ]);
+  // Reviewers' queue: fits sent for review, the longest-waiting first.
+  const awaitingReview = inReview
+    ? [...inReview].sort((a, b) => (a.submittedAt?.getTime() ?? 0) - (b.submittedAt?.getTime() ?? 0))
+    : null;
   // Finance's queue: latest versions shared and not yet decided (a newer version starts undecided).
   const awaiting =
     scenarios && signoffs && can(actor, "signoff:decide")
@@ -109,6 +115,31 @@ export default async function HomePage() {
           ) : null}
         </Section>
       </div>
+
+      {awaitingReview ? (
+        <Section id="awaiting-review" title="Awaiting review" description="Fits sent for review, the longest-waiting first. A fit is approved by someone other than the person who built it.">
+          {awaitingReview.length === 0 ? (
+            <p className="text-sm text-slate-700">No fit is waiting for review.</p>
+          ) : (
+            <ul className="flex flex-col divide-y divide-slate-100 text-sm">
+              {awaitingReview.map((fit) => (
+                <li key={fit.id} className="flex flex-wrap items-center justify-between gap-3 py-2" data-testid="home-awaiting-review" data-fit={fit.id}>
+                  <span className="flex flex-col">
+                    <Link href={`/fits/${fit.id}`} className={textLinkClass}>
+                      {fit.name}
+                    </Link>
+                    <span className="text-xs text-slate-600">
+                      {fit.outcome} on {fit.termCount} terms · {fit.authorName ?? "someone"}
+                      {fit.authorId === actor.userId ? " (you built it: another reviewer decides)" : ""}
+                    </span>
+                  </span>
+                  <span className="num text-xs text-slate-600">{fit.submittedAt ? `sent ${day.format(fit.submittedAt)}` : null}</span>
+                </li>
+              ))}
+            </ul>
+          )}
+        </Section>
+      ) : null}
 
       {awaiting ? (
         <Section id="awaiting-signoff" title="Awaiting sign-off" description="Latest scenario versions shared with finance that no one has signed off or declined yet.">

@@ -132,6 +132,10 @@ describe("building, submitting and approving", () => {
     const reviewer = await openPage(browser);
     try {
       await signInAs(reviewer.page, "reviewer");
+      // The reviewer's home lists it in their queue.
+      const queued = reviewer.page.locator(`[data-testid="home-awaiting-review"][data-fit="${fitId}"]`);
+      await queued.waitFor();
+      expect(await queued.textContent()).toMatch(new RegExp(`${name}.*${demoAccountFor("analyst").name}.*sent`));
       await reviewer.page.goto("/fits");
       await reviewer.page.getByTestId("fits-in_review").getByRole("link", { name }).click();
       await reviewer.page.waitForURL(`**/fits/${fitId}`);
@@ -142,6 +146,9 @@ describe("building, submitting and approving", () => {
       await expect.poll(() => reviewer.page.getByTestId("fit-status").getAttribute("data-status"), { timeout: 20_000 }).toBe("approved");
       expect(await reviewer.page.getByTestId("review-trail").textContent()).toContain("Display left out on purpose: agreed.");
       await reviewer.screenshot("fits-approved-by-reviewer");
+      await reviewer.page.goto("/");
+      await reviewer.page.locator("#awaiting-review").waitFor();
+      expect(await reviewer.page.locator(`[data-testid="home-awaiting-review"][data-fit="${fitId}"]`).count()).toBe(0);
     } finally {
       await reviewer.close();
     }
