@@ -7,6 +7,7 @@ import { listFitsByWorkspaceId } from "@/server/fits/store";
 import { listApprovedFits, listScenariosByWorkspace } from "@/server/scenarios/store";
 import { listScenarioSignoffSummaries } from "@/server/signoffs/summary";
 import { SignoffSummary } from "@/ui/compare/signoff-summary";
+import { FitStatusBadge } from "@/ui/fits/status";
 import { Section, RoleBadge } from "@/ui/section";
 import { describeAuditEvent } from "@/ui/audit-event";
 import { textLinkClass } from "@/ui/button-class";
@@ -15,14 +16,20 @@ export const metadata: Metadata = { title: "Home" };
 
 export default async function HomePage() {
   const actor = await requirePageActor("workspace:read");
-  const [events, members, approvedFits, scenarios, signoffs, inReview] = await Promise.all([
+  const [events, members, approvedFits, scenarios, signoffs, inReview, unfinished] = await Promise.all([
     listAuditEventsByWorkspaceId({ workspaceId: actor.workspaceId, limit: 10, excludeObjectTypes: ["api_token"] }),
     listMembersByWorkspaceId(actor.workspaceId),
     can(actor, "fit:read") ? listApprovedFits(actor.workspaceId) : null,
     can(actor, "scenario:read") ? listScenariosByWorkspace({ workspaceId: actor.workspaceId }) : null,
     can(actor, "scenario:read") ? listScenarioSignoffSummaries(actor.workspaceId) : null,
     can(actor, "fit:review") ? listFitsByWorkspaceId({ workspaceId: actor.workspaceId, statuses: ["in_review"] }) : null,
+    can(actor, "fit:create") ? listFitsByWorkspaceId({ workspaceId: actor.workspaceId, statuses: ["changes_requested", "draft", "in_review"] }) : null,
   ]);
+  // Analysts' own unfinished fits: sent back first, then drafts, then those waiting for a reviewer.
+  const statusOrder = { changes_requested: 0, draft: 1, in_review: 2 } as Record<string, number>;
+  const myFits = unfinished
+    ? unfinished.filter((fit) => fit.authorId === actor.userId).sort((a, b) => statusOrder[a.status] - statusOrder[b.status] || b.updatedAt.getTime() - a.updatedAt.getTime())
+    : null;
   // Reviewers' queue: fits sent for review, the longest-waiting first.
   const awaitingReview = inReview
     ? [...inReview].sort((a, b) => (a.submittedAt?.getTime() ?? 0) - (b.submittedAt?.getTime() ?? 0))
@@ -115,6 +122,26 @@ export default async function HomePage() {
           ) : null}
         </Section>
       </div>
+
+      {myFits && myFits.length > 0 ? (
+        <Section id="my-fits" title="Your fits in progress" description="Fits you built that are not approved yet: those a reviewer sent back first.">
+          <ul className="flex flex-col divide-y divide-slate-100 text-sm">
+            {myFits.map((fit) => (
+              <li key={fit.id} className="flex flex-wrap items-center justify-between gap-3 py-2" data-testid="home-my-fit" data-fit={fit.id} data-status={fit.status}>
+                <span className="flex flex-col">
+                  <Link href={`/fits/${fit.id}`} className={textLinkClass}>
+                    {fit.name}
+                  </Link>
+                  <span className="text-xs text-slate-600">
+                    {fit.outcome} on {fit.termCount} terms · changed {day.format(fit.updatedAt)}
+                  </span>
+                </span>
+                <FitStatusBadge status={fit.status} />
+              </li>
+            ))}
+          </ul>
+        </Section>
+      ) : null}
 
       {awaitingReview ? (
         <Section id="awaiting-review" title="Awaiting review" description="Fits sent for review, the longest-waiting first. A fit is approved by someone other than the person who built it.">

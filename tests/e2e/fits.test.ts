@@ -123,6 +123,12 @@ describe("building, submitting and approving", () => {
       const { token } = await createTokenFor(sql, demoAccountFor("analyst").email, "larkspur", "e2e fits");
       const refused = await api(`/api/fits/${fitId}/review`, { method: "POST", token, json: { decision: "approve" } });
       expect(refused.status).toBe(403);
+      // The analyst's home lists it among their fits in progress, in review.
+      await analyst.page.goto("/");
+      const mine = analyst.page.locator(`[data-testid="home-my-fit"][data-fit="${fitId}"]`);
+      await mine.waitFor();
+      expect(await mine.getAttribute("data-status")).toBe("in_review");
+      expect(await mine.textContent()).toContain("In review");
       expect(analyst.errors.filter((e) => e.startsWith("uncaught"))).toEqual([]);
     } finally {
       await analyst.close();
