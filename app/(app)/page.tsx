@@ -8,6 +8,7 @@ import { listApprovedFits, listScenariosByWorkspace } from "@/server/scenarios/s
 import { listScenarioSignoffSummaries } from "@/server/signoffs/summary";
 import { SignoffSummary } from "@/ui/compare/signoff-summary";
 import { FitStatusBadge } from "@/ui/fits/status";
+import { QueueList } from "@/ui/home/queue-list";
 import { Section, RoleBadge } from "@/ui/section";
 import { describeAuditEvent } from "@/ui/audit-event";
 import { textLinkClass } from "@/ui/button-class";
@@ -125,68 +126,49 @@ export default async function HomePage() {
 
       {myFits && myFits.length > 0 ? (
         <Section id="my-fits" title="Your fits in progress" description="Fits you built that are not approved yet: those a reviewer sent back first.">
-          <ul className="flex flex-col divide-y divide-slate-100 text-sm">
-            {myFits.map((fit) => (
-              <li key={fit.id} className="flex flex-wrap items-center justify-between gap-3 py-2" data-testid="home-my-fit" data-fit={fit.id} data-status={fit.status}>
-                <span className="flex flex-col">
-                  <Link href={`/fits/${fit.id}`} className={textLinkClass}>
-                    {fit.name}
-                  </Link>
-                  <span className="text-xs text-slate-600">
-                    {fit.outcome} on {fit.termCount} terms · changed {day.format(fit.updatedAt)}
-                  </span>
-                </span>
-                <FitStatusBadge status={fit.status} />
-              </li>
-            ))}
-          </ul>
+          <QueueList
+            empty=""
+            items={myFits.map((fit) => ({
+              key: fit.id,
+              href: `/fits/${fit.id}`,
+              title: fit.name,
+              detail: `${fit.outcome} on ${fit.termCount} terms · changed ${day.format(fit.updatedAt)}`,
+              aside: <FitStatusBadge status={fit.status} />,
+              data: { "data-testid": "home-my-fit", "data-fit": fit.id, "data-status": fit.status },
+            }))}
+          />
         </Section>
       ) : null}
 
       {awaitingReview ? (
         <Section id="awaiting-review" title="Awaiting review" description="Fits sent for review, the longest-waiting first. A fit is approved by someone other than the person who built it.">
-          {awaitingReview.length === 0 ? (
-            <p className="text-sm text-slate-700">No fit is waiting for review.</p>
-          ) : (
-            <ul className="flex flex-col divide-y divide-slate-100 text-sm">
-              {awaitingReview.map((fit) => (
-                <li key={fit.id} className="flex flex-wrap items-center justify-between gap-3 py-2" data-testid="home-awaiting-review" data-fit={fit.id}>
-                  <span className="flex flex-col">
-                    <Link href={`/fits/${fit.id}`} className={textLinkClass}>
-                      {fit.name}
-                    </Link>
-                    <span className="text-xs text-slate-600">
-                      {fit.outcome} on {fit.termCount} terms · {fit.authorName ?? "someone"}
-                      {fit.authorId === actor.userId ? " (you built it: another reviewer decides)" : ""}
-                    </span>
-                  </span>
-                  <span className="num text-xs text-slate-600">{fit.submittedAt ? `sent ${day.format(fit.submittedAt)}` : null}</span>
-                </li>
-              ))}
-            </ul>
-          )}
+          <QueueList
+            empty="No fit is waiting for review."
+            items={awaitingReview.map((fit) => ({
+              key: fit.id,
+              href: `/fits/${fit.id}`,
+              title: fit.name,
+              detail: `${fit.outcome} on ${fit.termCount} terms · ${fit.authorName ?? "someone"}${fit.authorId === actor.userId ? " (you built it: another reviewer decides)" : ""}`,
+              aside: <span className="num text-xs text-slate-600">{fit.submittedAt ? `sent ${day.format(fit.submittedAt)}` : null}</span>,
+              data: { "data-testid": "home-awaiting-review", "data-fit": fit.id },
+            }))}
+          />
         </Section>
       ) : null}
 
       {awaiting ? (
         <Section id="awaiting-signoff" title="Awaiting sign-off" description="Latest scenario versions shared with finance that no one has signed off or declined yet.">
-          {awaiting.length === 0 ? (
-            <p className="text-sm text-slate-700">Nothing is waiting for a decision.</p>
-          ) : (
-            <ul className="flex flex-col divide-y divide-slate-100 text-sm">
-              {awaiting.map(({ scenario, summary }) => (
-                <li key={scenario.id} className="flex flex-wrap items-center justify-between gap-3 py-2" data-testid="home-awaiting" data-scenario={scenario.id}>
-                  <span className="flex flex-col">
-                    <Link href={`/scenarios/${scenario.id}`} className={textLinkClass}>
-                      {scenario.name}
-                    </Link>
-                    <span className="text-xs text-slate-600">on {scenario.fitName}{scenario.ownerName ? ` · ${scenario.ownerName}` : ""}</span>
-                  </span>
-                  <SignoffSummary summary={summary} />
-                </li>
-              ))}
-            </ul>
-          )}
+          <QueueList
+            empty="Nothing is waiting for a decision."
+            items={awaiting.map(({ scenario, summary }) => ({
+              key: scenario.id,
+              href: `/scenarios/${scenario.id}`,
+              title: scenario.name,
+              detail: `on ${scenario.fitName}${scenario.ownerName ? ` · ${scenario.ownerName}` : ""}`,
+              aside: <SignoffSummary summary={summary} />,
+              data: { "data-testid": "home-awaiting", "data-scenario": scenario.id },
+            }))}
+          />
         </Section>
       ) : null}
 
