@@ -2,7 +2,7 @@ import "server-only";
 import type { IncomingMessage, ServerResponse } from "node:http";
 import type { NextApiRequest, NextApiResponse } from "next";
 import { auth } from "@/server/auth";
-import { AppError } from "@/server/errors";
+import { AppError, toAppError } from "@/server/errors";
 import {
   assertDeclaredLength,
   BodyCollector,
@@ -119,19 +119,27 @@ export function pagesApiRoute<
       await send(response, { status: 405, data: { error: `This route answers ${method} only.`, details: [] }, headers: { Allow: allow } });
       return;
     }
-    const headers = headersOf(request);
-    const outcome = await runApiPipeline(
-      options,
-      {
-        method,
-        url: request.url ?? "/",
-        headers,
-        params: request.query ?? {},
-        readBody: (limit) => readBody(request, headers, limit),
-        readSession: sessionReader(request),
-      },
-      (checked) => handler(checked as ApiCoreContext<B, Q, P, A>),
-    );
-    await send(response, outcome);
+    try {
+      const headers = headersOf(request);
+      const outcome = await runApiPipeline(
+        options,
+        {
+          method,
+          url: request.url ?? "/",
+          headers,
+          params: request.query ?? {},
+          readBody: (limit) => readBody(request, headers, limit),
+          readSession: sessionReader(request),
+        },
+        (checked) => handler(checked as ApiCoreContext<B, Q, P, A>),
+      );
+      await send(response, outcome);
+    } catch (error) {
+      // Past the pipeline (writing a handler's own Response failed): still our JSON error, never the
+      // Pages Router's HTML error page; once the answer has started, all that is left is to cut it.
+      const appError = toAppError(error, `${method} ${(request.url ?? "/").split("?", 1)[0]}`);
+      if (response.headersSent) response.destroy();
+      else await send(response, { status: appError.status, data: appError.toBody(), headers: appError.headers });
+    }
   };
 }

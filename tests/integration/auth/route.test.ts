@@ -170,6 +170,17 @@ describe("pagesApiRoute only", () => {
     expect(options.headers.get("allow")).toBe("POST, OPTIONS");
   });
 
+  it("answers a handler's Response that fails while being written with the JSON 500, not an HTML page", async () => {
+    const { token } = await tokenFor(["analyst"]);
+    const logged = vi.spyOn(console, "error").mockImplementation(() => {});
+    const broken = pagesApiRoute("GET", {}, () => new Response(new ReadableStream({ pull: (controller) => controller.error(new Error("disk gone")) })));
+    const response = await callPagesRoute(broken, apiRequest("/api/broken", { token }));
+    expect(response.status).toBe(500);
+    expect(response.headers.get("content-type")).toBe("application/json");
+    expect(await response.json()).toEqual({ error: "Something went wrong on our side. The error was logged.", details: [] });
+    expect(logged).toHaveBeenCalled();
+  });
+
   it("answers 401 without a token or session, and refuses a body that is not UTF-8", async () => {
     const anonymous = await callPagesRoute(echo, apiRequest("/api/e", { method: "POST", json: { name: "n" } }));
     expect(anonymous.status).toBe(401);
