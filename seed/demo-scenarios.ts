@@ -3,6 +3,7 @@ import type { Database } from "@/db/client";
 import { comparisons, fits, scenarios } from "@/db/schema";
 import { actorForScript } from "@/server/authz/member-actor";
 import { postComment } from "@/server/comments/store";
+import { shareComparison } from "@/server/comparisons/share";
 import { createComparison } from "@/server/comparisons/store";
 import { startScenario } from "@/server/scenarios/create";
 import { saveScenarioVersion, type SaveVersionInput } from "@/server/scenarios/save-version";
@@ -53,8 +54,9 @@ export async function saveMissingVersions(actor: Actor, scenario: ScenarioDto, v
  * uses (so every prediction is the server's): a fixed-total shift of €40,000 from display to search
  * (version 1 is last quarter's split, version 2 the shift, warned as a combination never seen: display
  * falls while online video stays), and a growing total up to 10% more, with the extra money in podcast
- * and e-mail (warned: e-mail above its observed range). A saved comparison of the three versions and a finance
- * comment on the shift give the finance screens something to show. Idempotent: finds scenarios and the
+ * and e-mail (warned: e-mail above its observed range). A saved comparison of the three versions, shared
+ * with finance (the warnings acknowledged) and so awaiting sign-off, and a finance comment on the shift
+ * give the finance screens something to show. Idempotent: finds scenarios and the
  * comparison by name and adds only the versions and objects that are missing (and none to a scenario a
  * person has saved versions of since).
  */
@@ -115,6 +117,17 @@ export async function seedDemoScenarios(db: Db): Promise<void> {
       ],
       baseline: 0,
     });
+    // Recorded with finance's notification but no e-mail: the seed runs before the mail sink starts.
+    await shareComparison(
+      planner,
+      {
+        comparisonId,
+        recipients: [demoAccountFor("finance").email],
+        note: "The display-to-search shift against last quarter and against growing the budget. Sign-off on one of them, please.",
+        acknowledgement: "Both changed plans go where the history has no data (display without online video; e-mail above the most it has had). Read as directions, not amounts.",
+      },
+      { mail: false },
+    );
     await postComment(finance, {
       scenarioId: spring.id,
       version: 2,

@@ -38,6 +38,14 @@ export type ShareDto = {
 
 type Recipient = { userId: string; name: string | null; email: string };
 
+export type ShareOptions = {
+  /**
+   * Whether each recipient gets an e-mail (default true). The demo seed records its share and the
+   * notification without one: it runs before the mail sink is up, and nobody reads a script's mail.
+   */
+  mail?: boolean;
+};
+
 /** The chosen people, each a finance member of the workspace (422 naming each one who is not). */
 export async function resolveFinanceRecipients(workspaceId: string, chosen: string[]): Promise<Recipient[]> {
   const members = await listMembersByWorkspaceId(workspaceId);
@@ -87,6 +95,7 @@ async function storeShare(
     acknowledgement: string | null;
     auditDetails: Record<string, unknown>;
   },
+  options: ShareOptions,
 ): Promise<ShareDto> {
   const who = actor.name ?? actor.email;
   const { id, createdAt } = await db.transaction(async (tx) => {
@@ -123,8 +132,9 @@ async function storeShare(
     );
     return row;
   });
+  const mails = options.mail === false ? [] : input.recipients;
   const mailedTo = await sendReviewMails(
-    input.recipients.map((recipient) => ({
+    mails.map((recipient) => ({
       to: recipient.email,
       subject: `${who} shared ${input.title} with you`,
       headline: `${who} shared ${input.title} with you for review.`,
@@ -149,7 +159,11 @@ async function storeShare(
 }
 
 /** Shares one scenario version with finance members (e-mail + notification each; audit entry). */
-export async function shareScenarioVersion(actor: Actor, input: ShareInput & { scenarioId: string; version: number }): Promise<ShareDto> {
+export async function shareScenarioVersion(
+  actor: Actor,
+  input: ShareInput & { scenarioId: string; version: number },
+  options: ShareOptions = {},
+): Promise<ShareDto> {
   const { head, version } = await requireVersion(actor, input.scenarioId, input.version);
   const recipients = await resolveFinanceRecipients(actor.workspaceId, input.recipients);
   const title = versionTitle(head.name, version.number);
@@ -166,11 +180,11 @@ export async function shareScenarioVersion(actor: Actor, input: ShareInput & { s
     note: (input.note ?? "").trim(),
     acknowledgement,
     auditDetails: { version: version.number, name: head.name, warnings: version.warnings.map((w) => w.kind) },
-  });
+  }, options);
 }
 
 /** Shares a saved comparison (all its versions) with finance members; any warned version needs the acknowledgement. */
-export async function shareComparison(actor: Actor, input: ShareInput & { comparisonId: string }): Promise<ShareDto> {
+export async function shareComparison(actor: Actor, input: ShareInput & { comparisonId: string }, options: ShareOptions = {}): Promise<ShareDto> {
   const record = await getComparisonRecord(input.comparisonId);
   assertInWorkspace(actor, record, "comparison");
   const recipients = await resolveFinanceRecipients(actor.workspaceId, input.recipients);
@@ -192,7 +206,7 @@ export async function shareComparison(actor: Actor, input: ShareInput & { compar
     note: (input.note ?? "").trim(),
     acknowledgement,
     auditDetails: { name: record.name, versions: record.versions.map((ref) => `${ref.scenarioId}#${ref.version}`), warned: warned.map((item) => item.title) },
-  });
+  }, options);
 }
 
 const sharers = alias(users, "sharers");

@@ -10,7 +10,7 @@
 import type { Browser, Page } from "playwright-core";
 import type postgres from "postgres";
 import { afterAll, beforeAll, describe, expect, test } from "vitest";
-import { demoGrowthScenarioName } from "@/seed/demo-names";
+import { demoGrowthScenarioName, demoSpringScenarioName } from "@/seed/demo-names";
 import { launch, openPage, type TestPage } from "./support/browser";
 import { linksIn, waitForMail } from "./support/mail";
 import { api, createTokenFor, demoAccountFor, signInAs, testDatabase } from "./support/sign-in";
@@ -122,6 +122,10 @@ describe("side by side with finance", () => {
     const awaiting = page.locator(`[data-testid="home-awaiting"][data-scenario="${scenarioId}"]`);
     expect(await awaiting.getByTestId("signoff-summary").getAttribute("data-state")).toBe("awaiting");
     expect(await awaiting.textContent()).toContain("Awaiting sign-off of v2");
+    // so are the demo's scenarios, which the seed's planner shared with finance in their comparison
+    const demo = page.locator('[data-testid="home-awaiting"]', { hasText: demoSpringScenarioName });
+    expect(await demo.getByTestId("signoff-summary").getAttribute("data-state")).toBe("awaiting");
+    expect(await demo.textContent()).toContain("Awaiting sign-off of v2");
     await finance.screenshot("compare-03a-finance-home-awaiting");
     const unread = Number(await page.getByTestId("notifications-link").getAttribute("data-unread"));
     expect(unread).toBeGreaterThanOrEqual(1);

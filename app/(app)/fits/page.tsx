@@ -28,7 +28,7 @@ export default async function FitsPage() {
     <div className="flex flex-col gap-6">
       <div className="flex flex-wrap items-start justify-between gap-4">
         <PageHeading title="Fits">
-          Regressions of an outcome on spend channels and controls. Only approved fits reach planners. Scripts can do the same through{" "}
+          Regressions of an outcome on spend channels and controls; scenarios start only from approved ones. Scripts can list, build and review fits through{" "}
           <Link href="/api-docs#api-fits" className={textLinkClass}>
             the API
           </Link>

@@ -12,6 +12,7 @@ import { actorForScript } from "@/server/authz/member-actor";
 import { startScenario } from "@/server/scenarios/create";
 import { saveScenarioVersion } from "@/server/scenarios/save-version";
 import { getScenarioById } from "@/server/scenarios/store";
+import { listScenarioSignoffSummaries } from "@/server/signoffs/summary";
 import { makePlanningWorkspace } from "../scenarios/support/workspace";
 import { getCachedFit } from "@/server/predict/fit-cache";
 import { scenarioOutcome, type ScenarioOutcome, type ScenarioWarning } from "@/server/predict/scenario-outcome";
@@ -100,7 +101,7 @@ describe("the demo seed's scenarios", () => {
     await expectServerPrediction(growth.fitId, growth.baseline, version);
   });
 
-  it("a saved comparison of the three versions with finance's comment on the shift", async () => {
+  it("a saved comparison of the three versions, shared with finance and awaiting sign-off, with finance's comment on the shift", async () => {
     const { sql } = getDatabase();
     const spring = await demoScenario(demoSpringScenarioName);
     const growth = await demoScenario(demoGrowthScenarioName);
@@ -117,14 +118,35 @@ describe("the demo seed's scenarios", () => {
     const comments = await sql<{ version: number; email: string }[]>`
       select c.version_number as version, u.email from comments c join "user" u on u.id = c.author_id where c.scenario_id = ${spring.id}`;
     expect(comments).toEqual([{ version: 2, email: demoAccountFor("finance").email }]);
+
+    // Shared by the planner with finance, the warnings acknowledged (both changed plans carry some).
+    const shared = await sql<{ sharedBy: string; recipient: string; acknowledgement: string | null; objectType: string }[]>`
+      select sb.email as "sharedBy", u.email as recipient, s.acknowledgement, s.object_type as "objectType"
+      from shares s join comparisons c on c.id = s.comparison_id join share_recipients r on r.share_id = s.id
+      join "user" u on u.id = r.user_id join "user" sb on sb.id = s.shared_by
+      where c.name = ${demoComparisonName}`;
+    expect(shared).toHaveLength(1);
+    expect(shared[0]).toMatchObject({ sharedBy: demoAccountFor("planner").email, recipient: demoAccountFor("finance").email, objectType: "comparison" });
+    expect(shared[0].acknowledgement).toMatch(/no data/);
+    const notified = await sql<{ kind: string; title: string }[]>`
+      select n.kind, n.title from notifications n join "user" u on u.id = n.user_id
+      where u.email = ${demoAccountFor("finance").email} and n.kind = 'share'`;
+    expect(notified.map((n) => n.title)).toEqual([`${demoAccountFor("planner").name} shared the comparison “${demoComparisonName}” with you.`]);
+
+    // So finance's home page finds both scenarios' latest versions awaiting a decision.
+    const [workspace] = await sql<{ id: string }[]>`select id from workspaces where slug = 'larkspur'`;
+    const summaries = await listScenarioSignoffSummaries(workspace.id);
+    expect(summaries.get(spring.id)).toMatchObject({ state: "awaiting", latestVersion: 2 });
+    expect(summaries.get(growth.id)).toMatchObject({ state: "awaiting", latestVersion: 1 });
   });
 
   it("`npm run seed` runs again and adds nothing", async () => {
     const { sql } = getDatabase();
     const counts = async () =>
-      (await sql<{ scenarios: number; versions: number; comparisons: number; comments: number }[]>`
+      (await sql<{ scenarios: number; versions: number; comparisons: number; comments: number; shares: number; notifications: number }[]>`
         select (select count(*)::int from scenarios) as scenarios, (select count(*)::int from scenario_versions) as versions,
-               (select count(*)::int from comparisons) as comparisons, (select count(*)::int from comments) as comments`)[0];
+               (select count(*)::int from comparisons) as comparisons, (select count(*)::int from comments) as comments,
+               (select count(*)::int from shares) as shares, (select count(*)::int from notifications) as notifications`)[0];
     const before = await counts();
     const { stdout } = await promisify(execFile)("npm", ["run", "--silent", "seed"], { env: process.env, timeout: 120_000 });
     expect(stdout).toContain("seed: demo scenarios");
