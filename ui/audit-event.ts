@@ -56,7 +56,7 @@ export function describeAuditEvent(event: Pick<AuditEventDto, "action" | "detail
     case "comparison.created":
       return `saved the comparison “${str(d.name)}”`;
     case "share.created":
-      return `shared ${event.objectType === "comparison" ? `the comparison “${str(d.name)}”` : `“${str(d.name)}” version ${String(d.version ?? "?")}`} with ${list(d.recipients)}${d.acknowledgement ? " (warnings acknowledged)" : ""}`;
+      return `shared ${event.objectType === "comparison" ? `the comparison “${str(d.name)}”` : `“${str(d.name)}” version ${String(d.version ?? "?")}`} with ${list(d.recipientNames ?? d.recipients)}${d.acknowledgement ? " (warnings acknowledged)" : ""}`;
     case "comment.posted":
       return `commented on “${str(d.name)}” version ${String(d.version ?? "?")}`;
     case "comment.replied":

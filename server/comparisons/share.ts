@@ -120,7 +120,13 @@ async function storeShare(
         action: "share.created",
         objectType: input.objectType,
         objectId: input.objectId,
-        details: { ...input.auditDetails, shareId: row.id, recipients: input.recipients.map((r) => r.email), acknowledgement: input.acknowledgement, note: input.note || null },
+        details: {
+          ...input.auditDetails,
+          shareId: row.id,
+          recipients: input.recipients.map((r) => r.email),
+          // Names as they were when shared, for the activity list; the addresses stay the record.
+          recipientNames: input.recipients.map((r) => r.name ?? r.email),
+          acknowledgement: input.acknowledgement, note: input.note || null },
       },
       tx,
     );

@@ -16,6 +16,7 @@ import { GET as getSignoff, POST as decide } from "@/app/api/scenarios/[id]/vers
 import { getDatabase } from "@/db/client";
 import { plainTextOf } from "@/server/mail/outbox";
 import { amountToCents } from "@/server/planning/allocation";
+import { describeAuditEvent } from "@/ui/audit-event";
 import { startMailSink } from "../fits/helpers";
 import { call, type Json, makeReviewWorkspace, movedPlan, saveNextVersion, scenarioWithVersions, type Workspace } from "./support";
 
@@ -168,6 +169,13 @@ describe("sharing", () => {
     const audit = (await auditRows(id)).find((row) => row.action === "share.created");
     expect(audit?.actor_user_id).toBe(setup.members.planner.id);
     expect(audit?.details.recipients.sort()).toEqual([setup.members.finance.email, setup.members.finance2.email].sort());
+    // The activity list names the people (older entries without names fall back to the addresses).
+    const phrase = describeAuditEvent({ action: "share.created", objectType: "comparison", details: audit!.details });
+    expect(phrase).toMatch(/^shared the comparison “Autumn v1 vs v2” with /);
+    for (const member of [setup.members.finance, setup.members.finance2]) expect(phrase).toContain(member.name);
+    expect(phrase).not.toContain(setup.members.finance.email);
+    const { recipientNames: _names, ...older } = audit!.details;
+    expect(describeAuditEvent({ action: "share.created", objectType: "comparison", details: older })).toContain(setup.members.finance2.email);
 
     // Finance opens it read-only.
     const opened = await call(getComparison, `/api/comparisons/${id}`, { id }, { token: setup.members.finance2.token });
