@@ -123,7 +123,7 @@ export async function seedDemoScenarios(db: Db): Promise<void> {
       {
         comparisonId,
         recipients: [demoAccountFor("finance").email],
-        note: "The display-to-search shift against last quarter and against growing the budget. Sign-off on one of them, please.",
+        note: "The display-to-search shift against last quarter and against growing the budget. Please sign off one of them.",
         acknowledgement: "Both changed plans go where the history has no data (display without online video; e-mail above the most it has had). Read as directions, not amounts.",
       },
       { mail: false },

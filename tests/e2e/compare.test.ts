@@ -201,6 +201,9 @@ describe("side by side with finance", () => {
     const banner = page.getByTestId("read-only-banner");
     expect(await banner.textContent()).toMatch(/Read-only for you\. Your roles \(Finance\) do not include planning/);
     expect(await banner.textContent()).toMatch(/open any saved version from Version history, put versions side by side and comment on, sign off or decline versions shared with you/);
+    // The outcome is computed here and no server answer is coming, so it is not called a preview.
+    await page.locator('[data-testid="outcome-panel"][data-source="local"]').waitFor({ timeout: 15_000 });
+    expect(await page.getByTestId("prediction-source").textContent()).toBe("Computed in this browser from the approved fit");
 
     // Every channel's slider and amount are disabled; so are locks, bounds, the total, the mode and the controls.
     const sliders = page.getByRole("slider");

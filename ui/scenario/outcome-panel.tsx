@@ -9,10 +9,12 @@ import type { HeldOutSummary } from "@/server/fits/types";
 import { Caution, LARGE_SHIFT_SHARE, cautionText } from "./cautions";
 import { formatOutcome, formatOutcomeCompact, formatPercent, formatSignedOutcome } from "./format";
 import { OutcomeInterval, stableDomain } from "./outcome-interval";
+import type { PredictionSource } from "./use-scenario-prediction";
 
 export interface OutcomePanelProps {
   outcome: ScenarioOutcome | null;
-  source: "preview" | "server";
+  /** "local": a reader without fit:predict (finance); the same engine as the server, run here, no confirmation to wait for. */
+  source: PredictionSource;
   fetching: boolean;
   error: string | null;
   shape: PlanShape;
@@ -48,6 +50,12 @@ function WarningList({ warnings }: { warnings: readonly ScenarioWarning[] }) {
  * the difference from the starting plan with its own interval, warnings, contributions and the
  * cautions next to the numbers they qualify.
  */
+function sourceLabel(source: PredictionSource, fetching: boolean): string {
+  if (source === "server") return "Confirmed by the server";
+  if (source === "local") return "Computed in this browser from the approved fit";
+  return fetching ? "Preview · confirming…" : "Preview in this browser";
+}
+
 export function OutcomePanel({ outcome, source, fetching, error, shape, money, baselineTotal, baselineDescription, shift, heldOut = null }: OutcomePanelProps) {
   const domainRef = useRef<[number, number] | null>(null);
   const differenceDomainRef = useRef<[number, number] | null>(null);
@@ -80,7 +88,7 @@ export function OutcomePanel({ outcome, source, fetching, error, shape, money, b
             data-testid="prediction-source"
             className={`rounded-full px-2 py-0.5 text-xs font-medium ${source === "server" ? "bg-shallows-pale text-river" : "bg-slate-100 text-slate-600"}`}
           >
-            {source === "server" ? "Confirmed by the server" : fetching ? "Preview · confirming…" : "Preview in this browser"}
+            {sourceLabel(source, fetching)}
           </span>
         </div>
         <p className="num mt-1 text-3xl font-semibold text-river" data-testid="horizon-total" data-value={total.mean}>

@@ -43,10 +43,15 @@ export function useDebouncedValue<T>(value: T, delayMs: number): T {
   return debounced;
 }
 
+export type PredictionSource = "preview" | "server" | "local";
+
 export type PredictionView = {
   outcome: ScenarioOutcome | null;
-  /** "preview": computed in this browser from the fit record; "server": the server's answer for this exact plan. */
-  source: "preview" | "server";
+  /**
+   * "preview": computed in this browser from the fit record, the server's answer to follow; "server":
+   * the server's answer for this exact plan; "local": computed here for a reader who cannot ask the server.
+   */
+  source: PredictionSource;
   fetching: boolean;
   error: string | null;
   /** Set when the preview itself cannot be computed (e.g. a negative amount typed). */
@@ -113,7 +118,7 @@ export function useScenarioPrediction(args: {
   }, [outcome]);
   return {
     outcome,
-    source: confirmed ? "server" : "preview",
+    source: confirmed ? "server" : canPredict ? "preview" : "local",
     // Until the request's chunk has loaded and answered, the plan on screen is still being asked about.
     fetching: debouncedBody !== body || (canPredict && (current === null || current.fetching)),
     error: current?.error ?? null,
