@@ -10,7 +10,7 @@
 import type { Browser, Page } from "playwright-core";
 import type postgres from "postgres";
 import { afterAll, beforeAll, describe, expect, test } from "vitest";
-import { demoGrowthScenarioName, demoSpringScenarioName } from "@/seed/demo-names";
+import { demoComparisonName, demoGrowthScenarioName, demoSpringScenarioName } from "@/seed/demo-names";
 import { launch, openPage, type TestPage } from "./support/browser";
 import { linksIn, waitForMail } from "./support/mail";
 import { api, createTokenFor, demoAccountFor, signInAs, testDatabase } from "./support/sign-in";
@@ -127,6 +127,13 @@ describe("side by side with finance", () => {
     expect(await demo.getByTestId("signoff-summary").getAttribute("data-state")).toBe("awaiting");
     expect(await demo.textContent()).toContain("Awaiting sign-off of v2");
     await finance.screenshot("compare-03a-finance-home-awaiting");
+    // The demo's comparison opens its review on the shift (the first undecided version besides the
+    // baseline), where finance's comment is, not on the last column.
+    await page.goto("/compare");
+    await page.getByRole("link", { name: `Comparison “${demoComparisonName}”` }).click();
+    await page.getByTestId("comparison-table").waitFor();
+    expect(await page.getByRole("tab", { selected: true }).textContent()).toContain(`${demoSpringScenarioName} v2`);
+    expect(await page.getByTestId("review-panel").textContent()).toContain("Can we run the shift in two regions");
     const unread = Number(await page.getByTestId("notifications-link").getAttribute("data-unread"));
     expect(unread).toBeGreaterThanOrEqual(1);
     await page.getByTestId("notifications-link").click();
@@ -144,6 +151,8 @@ describe("side by side with finance", () => {
     expect(await page.getByRole("button", { name: /^Save version/ }).count()).toBe(0);
     expect(await column(page, 2).getByTestId("signoff-badge").getAttribute("data-state")).toBe("none");
 
+    // The review opens on the first undecided version besides the baseline (v1): version 2.
+    expect(await page.getByTestId("review-panel").getAttribute("data-version")).toBe("2");
     // Review version 2: comment mentioning the planner, then sign off.
     await page.getByRole("tab", { name: new RegExp(`${scenarioName} v2`) }).click();
     const since = new Date(Date.now() - 1_000);

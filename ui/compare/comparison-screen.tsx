@@ -17,6 +17,7 @@ import { IntervalsChart } from "./intervals-chart";
 import { ShareForm, type FinanceMember } from "./share-form";
 import { SignoffBadge, SignoffSentence } from "./signoff-badge";
 import { SignoffForm } from "./signoff-form";
+import { defaultReviewedPosition } from "./review-default";
 
 export type ComparisonScreenProps = {
   comparison: ComparisonDto;
@@ -96,7 +97,7 @@ function SaveForm({ comparison }: { comparison: ComparisonDto }) {
 export function ComparisonScreen({ comparison, money, comments, members, financeMembers, currentUserId, can }: ComparisonScreenProps) {
   const router = useRouter();
   const { columns } = comparison;
-  const [reviewed, setReviewed] = useState(() => columns.length - 1);
+  const [reviewed, setReviewed] = useState(() => defaultReviewedPosition(columns, comparison.baselinePosition));
   const [sharing, setSharing] = useState(false);
   const outcome = columns[0].outcomeShape;
   const level = columns[0].level;
