@@ -79,7 +79,7 @@ describe("fit report", () => {
       expect(await tab.page.getByTestId("jarque-bera-note").textContent()).toMatch(/Jarque–Bera p-value 0\.\d{3}: no sign/);
       expect(await tab.page.getByTestId("breusch-pagan").textContent()).toMatch(/^\d+\.\d+/);
       // The reviewer's run-down: the demo's two known issues to look at, the other checks fine, words not colours.
-      expect(await tab.page.getByTestId("report-checks-summary").textContent()).toBe("2 things to look at before approving.");
+      expect(await tab.page.getByTestId("report-checks-summary").textContent()).toBe("2 things to keep in mind when reading this fit's numbers.");
       const checks = tab.page.getByTestId("report-checks").locator("li");
       const states = Object.fromEntries(await checks.evaluateAll((items) => items.map((item) => [item.getAttribute("data-check"), item.getAttribute("data-status")])));
       expect(states).toEqual({ collinearity: "look", periods: "ok", autocorrelation: "ok", variance: "ok", normality: "ok", holdout: "ok", influence: "ok", "spend-signs": "look" });

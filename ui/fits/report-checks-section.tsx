@@ -1,4 +1,4 @@
-import type { ReportCheck } from "./report-checks";
+import { checksSummary, type ReportCheck } from "./report-checks";
 import { textLinkClass } from "@/ui/button-class";
 
 const statusWords: Record<ReportCheck["status"], string> = { ok: "OK", look: "Look", unknown: "Not checked" };
@@ -9,12 +9,11 @@ const statusStyles: Record<ReportCheck["status"], string> = {
 };
 
 /** The reviewer's run-down: one line per check, a word for its state (never colour alone) and a link to the details. */
-export function ReportChecks({ checks }: { checks: ReportCheck[] }) {
-  const toLook = checks.filter((check) => check.status === "look").length;
+export function ReportChecks({ checks, decided = false }: { checks: ReportCheck[]; /** Approved or retired: no approval ahead. */ decided?: boolean }) {
   return (
     <div>
       <p className="text-sm text-slate-800" data-testid="report-checks-summary">
-        {toLook === 0 ? "Nothing stands out in these checks." : `${toLook} ${toLook === 1 ? "thing" : "things"} to look at before approving.`}
+        {checksSummary(checks, decided)}
       </p>
       <ul className="mt-3 flex flex-col gap-2" data-testid="report-checks">
         {checks.map((check) => (

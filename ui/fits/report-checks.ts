@@ -107,3 +107,11 @@ export function reportChecks(report: FitReport, spendColumns: readonly string[],
 
   return checks;
 }
+
+/** The run-down's first line: how many checks to look at, before approving or, once decided, when reading the numbers. */
+export function checksSummary(checks: readonly Pick<ReportCheck, "status">[], decided: boolean): string {
+  const toLook = checks.filter((check) => check.status === "look").length;
+  if (toLook === 0) return "Nothing stands out in these checks.";
+  const things = `${toLook} ${toLook === 1 ? "thing" : "things"}`;
+  return decided ? `${things} to keep in mind when reading this fit's numbers.` : `${things} to look at before approving.`;
+}

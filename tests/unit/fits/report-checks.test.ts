@@ -6,7 +6,7 @@ import { periodCoverage } from "@/server/datasets/period-coverage";
 import { computeFit } from "@/server/fits/compute";
 import type { FitReport } from "@/server/fits/types";
 import { demoChannels, demoControl, generateDemoHistory } from "@/seed/history";
-import { reportChecks } from "@/ui/fits/report-checks";
+import { checksSummary, reportChecks } from "@/ui/fits/report-checks";
 
 const spend = demoChannels.map((channel) => channel.column);
 
@@ -70,5 +70,23 @@ describe("reportChecks", () => {
     expect(checks.normality.status).toBe("unknown");
     expect(checks.holdout.status).toBe("unknown");
     expect(checks.autocorrelation.status).toBe("ok");
+  });
+});
+
+describe("checksSummary", () => {
+  const checks = (...statuses: ("ok" | "look" | "unknown")[]) => statuses.map((status) => ({ status }));
+
+  it("counts the checks to look at, before approving while undecided", () => {
+    expect(checksSummary(checks("ok", "look", "unknown", "look"), false)).toBe("2 things to look at before approving.");
+    expect(checksSummary(checks("look", "ok"), false)).toBe("1 thing to look at before approving.");
+  });
+
+  it("speaks of reading the numbers once the fit is approved or retired", () => {
+    expect(checksSummary(checks("look", "look"), true)).toBe("2 things to keep in mind when reading this fit's numbers.");
+  });
+
+  it("says nothing stands out when no check needs a look, whatever the status", () => {
+    expect(checksSummary(checks("ok", "unknown"), false)).toBe("Nothing stands out in these checks.");
+    expect(checksSummary(checks("ok"), true)).toBe("Nothing stands out in these checks.");
   });
 });

@@ -81,7 +81,10 @@ export default async function FitReportPage({ params }: Props) {
       </div>
 
       <Section id="checks" title="Checks" description="What a reviewer reads before approving, from the numbers below; each links to its section.">
-        <ReportChecks checks={reportChecks(report, fit.input.terms.filter((term) => term.role === "spend").map((term) => term.column), locale)} />
+        <ReportChecks
+          checks={reportChecks(report, fit.input.terms.filter((term) => term.role === "spend").map((term) => term.column), locale)}
+          decided={fit.status === "approved" || fit.status === "retired"}
+        />
       </Section>
 
       {actions.length > 0 || selfApprovalBlocked ? (
