@@ -21,6 +21,7 @@ import path from "node:path";
 import postgres from "postgres";
 import { describePlanShape } from "@/server/predict/plan-shape";
 import { parseFitRecord } from "@/server/stats";
+import { PREDICT_P99_TARGET_MS, slowFloorNote } from "./lib/floor-note";
 
 const baseUrl = (process.env.BASE_URL ?? "http://127.0.0.1:3000").replace("//localhost", "//127.0.0.1").replace(/\/$/, "");
 const databaseUrl = process.env.DATABASE_URL ?? "postgres://postgres@127.0.0.1:54329/tributary";
@@ -28,7 +29,7 @@ const connections = Number(process.env.CONNECTIONS ?? 10);
 const duration = Number(process.env.DURATION ?? 10);
 const rounds = Number(process.env.ROUNDS ?? 2);
 const targetRatio = Number(process.env.TARGET_RATIO ?? 0.9);
-const targetP99 = Number(process.env.TARGET_P99_MS ?? 25);
+const targetP99 = Number(process.env.TARGET_P99_MS ?? PREDICT_P99_TARGET_MS);
 const plannerEmail = process.env.PLANNER_EMAIL ?? "planner@larkspur.example";
 
 // autocannon ships no types: the little of its API used here.
@@ -157,6 +158,8 @@ or point at a running app and its database:
     console.log(
       `targets: ≥ ${(targetRatio * 100).toFixed(0)}% of ping throughput ${ratioOk ? "met" : "NOT met"}; p99 ≤ ${targetP99} ms ${p99Ok ? "met" : "NOT met"} (load generator and server share the machine)`,
     );
+    const floorNote = slowFloorNote(floor, targetP99);
+    if (floorNote) console.log(`note: ${floorNote}`);
     if (measured.non2xx > 0) console.log(`warning: ${measured.non2xx} predict responses were not 2xx`);
     // `--json`: one machine-readable line for `npm run bench` (bench/index.ts).
     if (process.argv.includes("--json")) console.log(JSON.stringify({ connections, duration, rounds, ping: floor, predict: measured, me: dynamicFloor, ratio }));
