@@ -95,7 +95,7 @@ async function storeShare(
     acknowledgement: string | null;
     auditDetails: Record<string, unknown>;
   },
-  options: ShareOptions,
+  options: ShareOptions = {},
 ): Promise<ShareDto> {
   const who = actor.name ?? actor.email;
   const { id, createdAt } = await db.transaction(async (tx) => {
@@ -126,7 +126,9 @@ async function storeShare(
           recipients: input.recipients.map((r) => r.email),
           // Names as they were when shared, for the activity list; the addresses stay the record.
           recipientNames: input.recipients.map((r) => r.name ?? r.email),
-          acknowledgement: input.acknowledgement, note: input.note || null },
+          acknowledgement: input.acknowledgement,
+          note: input.note || null,
+        },
       },
       tx,
     );
@@ -165,11 +167,7 @@ async function storeShare(
 }
 
 /** Shares one scenario version with finance members (e-mail + notification each; audit entry). */
-export async function shareScenarioVersion(
-  actor: Actor,
-  input: ShareInput & { scenarioId: string; version: number },
-  options: ShareOptions = {},
-): Promise<ShareDto> {
+export async function shareScenarioVersion(actor: Actor, input: ShareInput & { scenarioId: string; version: number }): Promise<ShareDto> {
   const { head, version } = await requireVersion(actor, input.scenarioId, input.version);
   const recipients = await resolveFinanceRecipients(actor.workspaceId, input.recipients);
   const title = versionTitle(head.name, version.number);
@@ -186,7 +184,7 @@ export async function shareScenarioVersion(
     note: (input.note ?? "").trim(),
     acknowledgement,
     auditDetails: { version: version.number, name: head.name, warnings: version.warnings.map((w) => w.kind) },
-  }, options);
+  });
 }
 
 /** Shares a saved comparison (all its versions) with finance members; any warned version needs the acknowledgement. */
@@ -200,19 +198,23 @@ export async function shareComparison(actor: Actor, input: ShareInput & { compar
     if (version.warnings.length > 0) warned.push({ title: versionTitle(head.name, version.number), warnings: version.warnings });
   }
   const acknowledgement = requireAcknowledgement(warned, input.acknowledgement);
-  return storeShare(actor, {
-    objectType: "comparison",
-    objectId: record.id,
-    scenarioId: null,
-    versionNumber: null,
-    comparisonId: record.id,
-    title: `the comparison “${record.name}”`,
-    link: comparisonPath(record.id),
-    recipients,
-    note: (input.note ?? "").trim(),
-    acknowledgement,
-    auditDetails: { name: record.name, versions: record.versions.map((ref) => `${ref.scenarioId}#${ref.version}`), warned: warned.map((item) => item.title) },
-  }, options);
+  return storeShare(
+    actor,
+    {
+      objectType: "comparison",
+      objectId: record.id,
+      scenarioId: null,
+      versionNumber: null,
+      comparisonId: record.id,
+      title: `the comparison “${record.name}”`,
+      link: comparisonPath(record.id),
+      recipients,
+      note: (input.note ?? "").trim(),
+      acknowledgement,
+      auditDetails: { name: record.name, versions: record.versions.map((ref) => `${ref.scenarioId}#${ref.version}`), warned: warned.map((item) => item.title) },
+    },
+    options,
+  );
 }
 
 const sharers = alias(users, "sharers");
