@@ -130,7 +130,7 @@ async function predictRows(stack: BenchStack): Promise<BenchRow[]> {
     ...(quick ? { DURATION: "5", ROUNDS: "1" } : {}),
   });
   const result = lastJsonLine<{ connections: number; ping: Summary; predict: Summary; ratio: number }>(run.output);
-  if (run.code !== 0 || !result) return [notMeasured("predict route", "≥ 90% of GET /api/ping; p99 ≤ 25 ms", `bench/predict.ts failed: ${tail(run.output)}`)];
+  if (run.code !== 0 || !result) return [notMeasured("predict route", `≥ 90% of GET /api/ping; p99 ≤ ${PREDICT_P99_TARGET_MS} ms`, `bench/predict.ts failed: ${tail(run.output)}`)];
   const { ping, predict } = result;
   const failures = predict.non2xx > 0 ? `${predict.non2xx} of ${fmt.int(predict.requests)} predict answers not 2xx` : undefined;
   return [
@@ -154,7 +154,7 @@ async function predictRows(stack: BenchStack): Promise<BenchRow[]> {
     {
       name: "predict route p99",
       measured: fmt.ms(predict.p99),
-      target: "≤ 25 ms",
+      target: `≤ ${PREDICT_P99_TARGET_MS} ms`,
       baseline: `GET /api/ping ${fmt.ms(ping.p99)}`,
       ratio: fmt.times(predict.p99 / Math.max(ping.p99, 0.001)),
       met: predict.p99 <= PREDICT_P99_TARGET_MS,
